@@ -1,0 +1,1 @@
+//! Pure kinetics over a validated model.

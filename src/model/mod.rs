@@ -1,0 +1,122 @@
+//! The validated reaction network: stationary points, the steps between
+//! them and the named paths.
+//!
+//! A [`Model`] is only built by [`crate::profile`] after every check has
+//! passed, so later stages (kinetics, layout) never re-check it: ids are
+//! unique, every path alternates minima and transition states correctly,
+//! energies are finite and already shifted so the `zero` state is 0.
+
+use crate::units::{EnergyUnit, Temperature};
+
+/// Index of a stationary point in [`Model::points`].
+pub type PointId = usize;
+
+/// Minimum or first-order saddle point.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, serde::Serialize)]
+#[serde(rename_all = "snake_case")]
+pub enum Kind {
+    /// A reactant, intermediate or product (from `[states]`).
+    Minimum,
+    /// A transition state (from `[ts]`).
+    TransitionState,
+}
+
+/// One stationary point.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Point {
+    /// The id used in the file, e.g. `ts-ion`.
+    pub id: String,
+    /// Text drawn under the bar; the id when the file gives none.
+    pub label: String,
+    /// Minimum or TS.
+    pub kind: Kind,
+    /// Free energy in the model's unit, relative to the `zero` state (as written when
+    /// there is no `zero`).
+    pub g: f64,
+    /// Whether this minimum is a product (always false for a TS).
+    pub product: bool,
+}
+
+/// An elementary step between two minima, through a TS or barrierless.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash)]
+pub struct Step {
+    /// The minimum the step starts from, in the direction it was first written.
+    pub from: PointId,
+    /// The transition state, or `None` for a barrierless step between adjacent minima.
+    pub ts: Option<PointId>,
+    /// The minimum the step leads to.
+    pub to: PointId,
+}
+
+/// A named chain of points, as written in one `[[path]]` table.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Path {
+    /// The path's name (`name = …`), or `path N` (1-based) when the file gives none.
+    pub name: String,
+    /// The points in order: minimum, (TS,) minimum, …
+    pub via: Vec<PointId>,
+}
+
+/// A validated profile.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Model {
+    pub(crate) title: Option<String>,
+    pub(crate) temperature: Temperature,
+    pub(crate) unit: EnergyUnit,
+    pub(crate) zero: Option<PointId>,
+    pub(crate) points: Vec<Point>,
+    pub(crate) steps: Vec<Step>,
+    pub(crate) paths: Vec<Path>,
+}
+
+impl Model {
+    /// The title, if the file gives one.
+    pub fn title(&self) -> Option<&str> {
+        self.title.as_deref()
+    }
+    /// The temperature of the analysis.
+    pub fn temperature(&self) -> Temperature {
+        self.temperature
+    }
+    /// The same model at another temperature (the `--temperature` option).
+    pub fn with_temperature(mut self, t: Temperature) -> Model {
+        self.temperature = t;
+        self
+    }
+    /// The unit energies are written and reported in.
+    pub fn unit(&self) -> EnergyUnit {
+        self.unit
+    }
+    /// The state drawn and reported at 0, if the file names one.
+    pub fn zero(&self) -> Option<PointId> {
+        self.zero
+    }
+    /// All stationary points: states first in file order, then transition states.
+    pub fn points(&self) -> &[Point] {
+        &self.points
+    }
+    /// One point.
+    pub fn point(&self, id: PointId) -> &Point {
+        &self.points[id]
+    }
+    /// Looks a point up by its file id.
+    pub fn find(&self, id: &str) -> Option<PointId> {
+        self.points.iter().position(|p| p.id == id)
+    }
+    /// Elementary steps, deduplicated, in order of first appearance.
+    pub fn steps(&self) -> &[Step] {
+        &self.steps
+    }
+    /// Paths in file order.
+    pub fn paths(&self) -> &[Path] {
+        &self.paths
+    }
+    /// The products (minima marked or inferred as products), in point order.
+    pub fn products(&self) -> impl Iterator<Item = PointId> + '_ {
+        self.points
+            .iter()
+            .enumerate()
+            .filter(|(_, p)| p.product)
+            .map(|(i, _)| i)
+    }
+}

@@ -1,0 +1,1 @@
+//! Reads profile text (TOML) into a validated [`crate::model::Model`].

@@ -1,0 +1,1 @@
+//! Draws a [`crate::layout::Scene`]; never sees a profile.
