@@ -121,7 +121,9 @@ impl Source {
             let mut buffer = String::new();
             if term::emit_to_string(&mut buffer, &config, &file, &cs).is_ok() {
                 // Drop codespan's own empty header line; ours above carries the location.
-                for l in buffer.lines().skip_while(|l| l.trim().is_empty() || l.starts_with("error") || l.starts_with("warning")) {
+                for l in buffer.lines().skip_while(|l| {
+                    l.trim().is_empty() || l.starts_with("error") || l.starts_with("warning")
+                }) {
                     out.push_str(l);
                     out.push('\n');
                 }

@@ -141,7 +141,9 @@ pub struct Temperature(f64);
 #[derive(Debug, Clone, PartialEq, thiserror::Error)]
 pub enum TemperatureError {
     /// The text is not a number followed by an optional unit.
-    #[error("cannot read '{0}' as a temperature (write e.g. \"25 C\", \"-78 C\", \"298.15 K\" or a number in kelvin)")]
+    #[error(
+        "cannot read '{0}' as a temperature (write e.g. \"25 C\", \"-78 C\", \"298.15 K\" or a number in kelvin)"
+    )]
     Unreadable(String),
     /// The value is at or below absolute zero, or not finite.
     #[error("temperature {0} K is not above absolute zero")]

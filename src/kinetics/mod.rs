@@ -1,1 +1,11 @@
-//! Pure kinetics over a validated model.
+//! Pure kinetics over a validated model: never prints, never writes files.
+//!
+//! - [`eyring`]: rate constants and half-lives from barriers, in log space.
+//! - [`analysis`]: every step's barriers and rate constants in both
+//!   directions, and every path's apparent barrier.
+
+pub mod analysis;
+pub mod eyring;
+
+pub use analysis::{Analysis, PathBarrier, StepKinetics, analyze};
+pub use eyring::{RateConstant, barrier_for_half_life, barrier_for_rate, rate_constant};
