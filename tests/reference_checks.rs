@@ -1,0 +1,163 @@
+//! eyrie's constants and Eyring kinetics against check values computed outside
+//! the project: `tests/reference/*.toml`, written by `tests/reference/generate.py`
+//! (mpmath/numpy/scipy, versions in each file's `[meta]`; sources named per entry,
+//! CODATA 2018 and the Eyring equation for the entries checked here).
+//!
+//! Every entry of the files read here is either checked or named in a skip list
+//! with the reason, so a new entry cannot be silently ignored.
+
+use eyrie::kinetics::{barrier_for_half_life, barrier_for_rate, rate_constant};
+use eyrie::units::{self, EnergyUnit, Temperature};
+use std::collections::BTreeSet;
+
+struct Check {
+    id: String,
+    value: f64,
+    rel: f64,
+    abs: f64,
+    inputs: toml::Table,
+}
+
+fn load(file: &str) -> Vec<Check> {
+    let path = format!("{}/tests/reference/{file}", env!("CARGO_MANIFEST_DIR"));
+    let text = std::fs::read_to_string(&path).expect("reference file is in the repo");
+    let doc: toml::Table = text.parse().expect("reference file is valid TOML");
+    doc["check"]
+        .as_array()
+        .expect("[[check]] tables")
+        .iter()
+        .map(|c| {
+            let tol = c["tolerance"].as_table().expect("tolerance");
+            Check {
+                id: c["id"].as_str().unwrap().to_string(),
+                value: c["value"].as_float().unwrap_or(f64::NAN),
+                rel: tol.get("rel").and_then(|v| v.as_float()).unwrap_or(0.0),
+                abs: tol.get("abs").and_then(|v| v.as_float()).unwrap_or(0.0),
+                inputs: c["inputs"].as_table().cloned().unwrap_or_default(),
+            }
+        })
+        .collect()
+}
+
+fn assert_close(c: &Check, got: f64) {
+    let allowed = (c.rel * c.value.abs()).max(c.abs);
+    assert!(
+        (got - c.value).abs() <= allowed,
+        "{}: got {got:e}, reference {:e} (allowed ±{allowed:e})",
+        c.id,
+        c.value
+    );
+}
+
+fn input(c: &Check, key: &str) -> f64 {
+    c.inputs[key].as_float().unwrap()
+}
+
+fn temperature(c: &Check) -> Temperature {
+    Temperature::kelvin(input(c, "temperature_k")).unwrap()
+}
+
+fn unit(c: &Check) -> EnergyUnit {
+    EnergyUnit::parse(c.inputs["unit"].as_str().unwrap()).unwrap()
+}
+
+#[test]
+fn constants_match_codata_2018() {
+    // Source: CODATA 2018 (Tiesinga et al., Rev. Mod. Phys. 2021, 93, 025010) and the
+    // thermochemical calorie, as tabulated in tests/reference/constants.toml.
+    let skipped: BTreeSet<&str> = [
+        // Not used by eyrie yet: pressures and light belong to the standard-state and
+        // tunnelling work of later issues.
+        "const-c",
+        "const-atm",
+        "const-bar",
+        "const-R-L-atm",
+        "const-R-L-bar",
+        "const-c2",
+        "const-wavenumber-kcal",
+        "const-wavenumber-kJ",
+    ]
+    .into();
+    let kcal = EnergyUnit::KcalPerMol;
+    let mut checked = 0;
+    for c in load("constants.toml") {
+        let t = || Temperature::kelvin(input(&c, "temperature_k")).unwrap();
+        let got = match c.id.as_str() {
+            id if skipped.contains(id) => continue,
+            "const-kB" => units::BOLTZMANN,
+            "const-h" => units::PLANCK,
+            "const-NA" => units::AVOGADRO,
+            "const-e" => units::ELEMENTARY_CHARGE,
+            "const-cal" => units::CALORIE,
+            "const-R" => units::GAS_CONSTANT,
+            "const-R-kcal" => kcal.from_j_per_mol(units::GAS_CONSTANT),
+            "const-hartree-kJ" | "const-hartree-kJ-unrounded" => {
+                EnergyUnit::Hartree.convert(1.0, EnergyUnit::KjPerMol)
+            }
+            "const-hartree-kcal" => EnergyUnit::Hartree.convert(1.0, kcal),
+            "const-eV-kJ" => EnergyUnit::Ev.convert(1.0, EnergyUnit::KjPerMol),
+            "const-eV-kcal" => EnergyUnit::Ev.convert(1.0, kcal),
+            id if id.starts_with("const-kT_h-") => t().frequency_factor(),
+            id if id.starts_with("const-RTln10-") => {
+                let u = if id.ends_with("kJ") { EnergyUnit::KjPerMol } else { kcal };
+                t().rt(u) * std::f64::consts::LN_10
+            }
+            id if id.starts_with("const-RT-") => {
+                let u = if id.ends_with("kJ") { EnergyUnit::KjPerMol } else { kcal };
+                t().rt(u)
+            }
+            other => panic!("reference entry {other} is neither checked nor skipped"),
+        };
+        assert_close(&c, got);
+        checked += 1;
+    }
+    assert_eq!(checked, 23, "number of constants checked");
+}
+
+#[test]
+fn eyring_rate_constants_and_half_lives() {
+    // Source: closed form, Eyring equation (Eyring, J. Chem. Phys. 1935, 3, 107) with
+    // CODATA 2018 constants, as tabulated in tests/reference/eyring.toml.
+    let skipped: BTreeSet<&str> = [
+        // Second-order constants with the 1 mol/L standard state come with bimolecular
+        // steps (a later issue).
+        "eyring-k2-298.15K-15kcal",
+    ]
+    .into();
+    let mut checked = 0;
+    for c in load("eyring.toml") {
+        let id = c.id.as_str();
+        if skipped.contains(id) {
+            continue;
+        }
+        let got = if id.starts_with("eyring-k-") || id.starts_with("eyring-thalf-") {
+            let k = rate_constant(input(&c, "dg"), unit(&c), temperature(&c), input(&c, "kappa"));
+            if id.starts_with("eyring-k-") {
+                k.per_second()
+            } else {
+                k.half_life_s()
+            }
+        } else if id.starts_with("eyring-barrier-for-k") {
+            barrier_for_rate(input(&c, "k"), EnergyUnit::KcalPerMol, temperature(&c))
+        } else if id.starts_with("eyring-barrier-for-thalf") {
+            barrier_for_half_life(input(&c, "t_half_s"), EnergyUnit::KcalPerMol, temperature(&c))
+        } else {
+            panic!("reference entry {id} is neither checked nor skipped");
+        };
+        assert_close(&c, got);
+        checked += 1;
+    }
+    assert_eq!(checked, 47, "number of Eyring entries checked");
+}
+
+#[test]
+fn temperatures_in_the_forms_chemists_write() {
+    // closed form: T/K = t/°C + 273.15 (definition of the Celsius scale).
+    for (text, k) in [("25 C", 298.15), ("-78 C", 195.15), ("298.15 K", 298.15), ("310", 310.0), ("0 °C", 273.15)] {
+        let t = Temperature::parse(text).unwrap();
+        assert!((t.k() - k).abs() < 1e-9, "{text} → {}", t.k());
+    }
+    for bad in ["-300 C", "0", "0 K", "warm", "nan", ""] {
+        assert!(Temperature::parse(bad).is_err(), "{bad} should be refused");
+    }
+}
