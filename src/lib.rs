@@ -20,9 +20,12 @@
 #![warn(missing_docs)]
 
 pub mod diag;
+pub mod figure;
+pub mod format;
 pub mod kinetics;
 pub mod layout;
 pub mod model;
 pub mod profile;
 pub mod render;
+pub mod report;
 pub mod units;

@@ -1,0 +1,145 @@
+//! The `analyze` result as plain, serialisable data with ids resolved to
+//! names: what `--json` prints and what scripts rely on.
+//!
+//! Field names are fixed by the project's JSON documentation
+//! (`docs/json.md`); add fields, never rename them.
+
+use crate::kinetics::Analysis;
+use crate::model::Model;
+use serde::Serialize;
+
+/// Top-level `analyze --json` object.
+#[derive(Debug, Clone, Serialize)]
+pub struct AnalysisReport {
+    /// The profile's title, or null.
+    pub title: Option<String>,
+    /// Temperature of every number below, in K.
+    pub temperature_k: f64,
+    /// Unit of every energy below ("kcal/mol", "kJ/mol", "eV", "hartree").
+    pub unit: &'static str,
+    /// The state reported at 0, or null when energies are as written.
+    pub zero: Option<String>,
+    /// Every stationary point with its (shifted) energy.
+    pub points: Vec<PointReport>,
+    /// Every elementary step.
+    pub steps: Vec<StepReport>,
+    /// Every path's apparent barrier.
+    pub paths: Vec<PathReport>,
+}
+
+/// One stationary point.
+#[derive(Debug, Clone, Serialize)]
+pub struct PointReport {
+    /// File id.
+    pub id: String,
+    /// Label as drawn.
+    pub label: String,
+    /// "minimum" or "transition_state".
+    pub kind: crate::model::Kind,
+    /// Free energy relative to `zero`, in `unit`.
+    pub g: f64,
+    /// Whether this state is a product.
+    pub product: bool,
+}
+
+/// One step in both directions.
+#[derive(Debug, Clone, Serialize)]
+pub struct StepReport {
+    /// Minimum the step starts from.
+    pub from: String,
+    /// Minimum the step leads to.
+    pub to: String,
+    /// Transition state, or null for a barrierless step.
+    pub ts: Option<String>,
+    /// ΔG‡ forward, in `unit`.
+    pub barrier_forward: f64,
+    /// ΔG‡ reverse, in `unit`.
+    pub barrier_reverse: f64,
+    /// Eyring k forward, s⁻¹ (κ = 1).
+    pub k_forward: f64,
+    /// Eyring k reverse, s⁻¹ (κ = 1).
+    pub k_reverse: f64,
+    /// ln 2 / k_forward, s.
+    pub half_life_forward_s: f64,
+    /// ln 2 / k_reverse, s.
+    pub half_life_reverse_s: f64,
+}
+
+/// One path's apparent barrier.
+#[derive(Debug, Clone, Serialize)]
+pub struct PathReport {
+    /// Path name.
+    pub name: String,
+    /// Largest rise from a minimum to a later TS on the path, in `unit`.
+    pub apparent_barrier: f64,
+    /// The minimum it starts from.
+    pub determining_state: String,
+    /// The TS it reaches (null when the path has no TS).
+    pub determining_ts: Option<String>,
+    /// Eyring k for the apparent barrier, s⁻¹.
+    pub k_apparent: f64,
+    /// ln 2 / k_apparent, s.
+    pub half_life_s: f64,
+}
+
+impl AnalysisReport {
+    /// Resolves the analysis of `model` into names and plain numbers.
+    pub fn new(model: &Model, analysis: &Analysis) -> AnalysisReport {
+        let id = |p: usize| model.point(p).id.clone();
+        let points = model
+            .points()
+            .iter()
+            .map(|p| PointReport {
+                id: p.id.clone(),
+                label: p.label.clone(),
+                kind: p.kind,
+                g: p.g,
+                product: p.product,
+            })
+            .collect();
+        let steps = analysis
+            .steps
+            .iter()
+            .map(|s| StepReport {
+                from: id(s.step.from),
+                to: id(s.step.to),
+                ts: s.step.ts.map(id),
+                barrier_forward: s.barrier_forward,
+                barrier_reverse: s.barrier_reverse,
+                k_forward: s.k_forward.per_second(),
+                k_reverse: s.k_reverse.per_second(),
+                half_life_forward_s: s.k_forward.half_life_s(),
+                half_life_reverse_s: s.k_reverse.half_life_s(),
+            })
+            .collect();
+        let paths = analysis
+            .paths
+            .iter()
+            .map(|p| {
+                let k = crate::kinetics::rate_constant(
+                    p.apparent_barrier,
+                    analysis.unit,
+                    analysis.temperature,
+                    1.0,
+                );
+                PathReport {
+                    name: model.paths()[p.path].name.clone(),
+                    apparent_barrier: p.apparent_barrier,
+                    determining_state: id(p.determining_state),
+                    determining_ts: p.determining_ts.map(id),
+                    k_apparent: k.per_second(),
+                    half_life_s: k.half_life_s(),
+                }
+            })
+            .collect();
+        AnalysisReport {
+            title: model.title().map(str::to_string),
+            temperature_k: analysis.temperature.k(),
+            unit: analysis.unit.name(),
+            zero: model.zero().map(id),
+            points,
+            steps,
+            paths,
+        }
+    }
+}
