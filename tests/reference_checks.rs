@@ -99,11 +99,19 @@ fn constants_match_codata_2018() {
             "const-eV-kcal" => EnergyUnit::Ev.convert(1.0, kcal),
             id if id.starts_with("const-kT_h-") => t().frequency_factor(),
             id if id.starts_with("const-RTln10-") => {
-                let u = if id.ends_with("kJ") { EnergyUnit::KjPerMol } else { kcal };
+                let u = if id.ends_with("kJ") {
+                    EnergyUnit::KjPerMol
+                } else {
+                    kcal
+                };
                 t().rt(u) * std::f64::consts::LN_10
             }
             id if id.starts_with("const-RT-") => {
-                let u = if id.ends_with("kJ") { EnergyUnit::KjPerMol } else { kcal };
+                let u = if id.ends_with("kJ") {
+                    EnergyUnit::KjPerMol
+                } else {
+                    kcal
+                };
                 t().rt(u)
             }
             other => panic!("reference entry {other} is neither checked nor skipped"),
@@ -131,7 +139,12 @@ fn eyring_rate_constants_and_half_lives() {
             continue;
         }
         let got = if id.starts_with("eyring-k-") || id.starts_with("eyring-thalf-") {
-            let k = rate_constant(input(&c, "dg"), unit(&c), temperature(&c), input(&c, "kappa"));
+            let k = rate_constant(
+                input(&c, "dg"),
+                unit(&c),
+                temperature(&c),
+                input(&c, "kappa"),
+            );
             if id.starts_with("eyring-k-") {
                 k.per_second()
             } else {
@@ -140,7 +153,11 @@ fn eyring_rate_constants_and_half_lives() {
         } else if id.starts_with("eyring-barrier-for-k") {
             barrier_for_rate(input(&c, "k"), EnergyUnit::KcalPerMol, temperature(&c))
         } else if id.starts_with("eyring-barrier-for-thalf") {
-            barrier_for_half_life(input(&c, "t_half_s"), EnergyUnit::KcalPerMol, temperature(&c))
+            barrier_for_half_life(
+                input(&c, "t_half_s"),
+                EnergyUnit::KcalPerMol,
+                temperature(&c),
+            )
         } else {
             panic!("reference entry {id} is neither checked nor skipped");
         };
@@ -153,11 +170,120 @@ fn eyring_rate_constants_and_half_lives() {
 #[test]
 fn temperatures_in_the_forms_chemists_write() {
     // closed form: T/K = t/°C + 273.15 (definition of the Celsius scale).
-    for (text, k) in [("25 C", 298.15), ("-78 C", 195.15), ("298.15 K", 298.15), ("310", 310.0), ("0 °C", 273.15)] {
+    for (text, k) in [
+        ("25 C", 298.15),
+        ("-78 C", 195.15),
+        ("298.15 K", 298.15),
+        ("310", 310.0),
+        ("0 °C", 273.15),
+    ] {
         let t = Temperature::parse(text).unwrap();
         assert!((t.k() - k).abs() < 1e-9, "{text} → {}", t.k());
     }
     for bad in ["-300 C", "0", "0 K", "warm", "nan", ""] {
         assert!(Temperature::parse(bad).is_err(), "{bad} should be refused");
     }
+}
+
+#[test]
+fn energetic_span_of_the_reference_cycles() {
+    // Source: energetic span model (Kozuch & Shaik, J. Phys. Chem. A 2008, 112, 6032;
+    // Acc. Chem. Res. 2011, 44, 101), exact formula; cycles A–E and their values in
+    // tests/reference/energetic_span.toml, each TOF cross-checked there against the
+    // linear mass-action steady state (numpy).
+    use eyrie::kinetics::span::energetic_span;
+    let path = format!(
+        "{}/tests/reference/energetic_span.toml",
+        env!("CARGO_MANIFEST_DIR")
+    );
+    let doc: toml::Table = std::fs::read_to_string(path).unwrap().parse().unwrap();
+    let floats = |v: &toml::Value| -> Vec<f64> {
+        v.as_array()
+            .unwrap()
+            .iter()
+            .map(|x| x.as_float().unwrap())
+            .collect()
+    };
+    let strings = |v: &toml::Value| -> Vec<String> {
+        v.as_array()
+            .unwrap()
+            .iter()
+            .map(|x| x.as_str().unwrap().to_string())
+            .collect()
+    };
+    let mut checked = 0;
+    for cycle in doc["cycle"].as_array().unwrap() {
+        let name = cycle["name"].as_str().unwrap();
+        let unit = EnergyUnit::parse(cycle["unit"].as_str().unwrap()).unwrap();
+        let t = Temperature::kelvin(cycle["temperature_k"].as_float().unwrap()).unwrap();
+        let (ints, tss) = (strings(&cycle["intermediates"]), strings(&cycle["ts"]));
+        let span = energetic_span(
+            &floats(&cycle["intermediate_g"]),
+            &floats(&cycle["ts_g"]),
+            cycle["dgr"].as_float().unwrap(),
+            unit,
+            t,
+        )
+        .unwrap();
+        for c in doc["check"].as_array().unwrap() {
+            let id = c["id"].as_str().unwrap();
+            let Some(what) = id.strip_prefix(&format!("esm-{name}-")) else {
+                continue;
+            };
+            let tol = c["tolerance"].as_table().unwrap();
+            let close = |got: f64| {
+                let value = c["value"].as_float().unwrap();
+                let rel = tol.get("rel").and_then(|v| v.as_float()).unwrap_or(0.0);
+                let abs = tol.get("abs").and_then(|v| v.as_float()).unwrap_or(0.0);
+                assert!(
+                    (got - value).abs() <= (rel * value.abs()).max(abs),
+                    "{id}: got {got:e}, reference {value:e}"
+                );
+            };
+            let det = span.determining.as_ref();
+            match what {
+                "tof" => {
+                    close(span.tof);
+                    // The wrong δG′ convention gives trap_value; we must not.
+                    let trap = c["trap_value"].as_float().unwrap();
+                    assert!(
+                        (span.tof / trap - 1.0).abs() > 1e-6,
+                        "{id}: reproduces the trap value"
+                    );
+                }
+                "tdi" => assert_eq!(ints[det.unwrap().tdi], c["value"].as_str().unwrap(), "{id}"),
+                "tdts" => assert_eq!(tss[det.unwrap().tdts], c["value"].as_str().unwrap(), "{id}"),
+                "tdts-position" => {
+                    let got = if det.unwrap().tdts_before_tdi {
+                        "before"
+                    } else {
+                        "after"
+                    };
+                    assert_eq!(got, c["value"].as_str().unwrap(), "{id}");
+                }
+                "span" => close(det.unwrap().span),
+                "tof-approx" => close(det.unwrap().tof_approx),
+                x if x.starts_with("xtof-") => {
+                    let state = &x["xtof-".len()..];
+                    let got = match tss.iter().position(|s| s == state) {
+                        Some(i) => span.ts_control[i],
+                        None => {
+                            span.intermediate_control[ints.iter().position(|s| s == state).unwrap()]
+                        }
+                    };
+                    close(got);
+                }
+                other => panic!("{id}: check kind {other} is not handled"),
+            }
+            checked += 1;
+        }
+        if cycle["dgr"].as_float().unwrap() > 0.0 {
+            assert!(
+                span.tof < 0.0,
+                "cycle {name}: endergonic cycles run backwards"
+            );
+            assert!(span.determining.is_none());
+        }
+    }
+    assert_eq!(checked, 55, "energetic-span entries checked");
 }

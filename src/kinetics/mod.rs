@@ -3,9 +3,11 @@
 //! - [`eyring`]: rate constants and half-lives from barriers, in log space.
 //! - [`analysis`]: every step's barriers and rate constants in both
 //!   directions, and every path's apparent barrier.
+//! - [`span`]: the energetic span model of a catalytic cycle.
 
 pub mod analysis;
 pub mod eyring;
+pub mod span;
 
 pub use analysis::{Analysis, PathBarrier, StepKinetics, analyze};
 pub use eyring::{RateConstant, barrier_for_half_life, barrier_for_rate, rate_constant};
