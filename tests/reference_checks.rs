@@ -287,3 +287,67 @@ fn energetic_span_of_the_reference_cycles() {
     }
     assert_eq!(checked, 55, "energetic-span entries checked");
 }
+
+#[test]
+fn selectivity_conversions() {
+    // Source: closed forms r = exp(ΔΔG‡/RT), ee = (r − 1)/(r + 1), Boltzmann weights
+    // of the product-determining TSs (Curtin–Hammett limit), as tabulated in
+    // tests/reference/selectivity.toml.
+    use eyrie::convert::{Conversion, Given};
+    use eyrie::kinetics::selectivity::boltzmann_fractions;
+    let kcal = EnergyUnit::KcalPerMol;
+    let skipped: BTreeSet<&str> = [
+        // Temperature dependence from ΔΔH‡/ΔΔS‡ comes with h/s energies (a later issue).
+        "isoselective-temperature",
+        "isoselective-ratio-195.15K",
+        "isoselective-ratio-298.15K",
+        "isoselective-ratio-373.15K",
+    ]
+    .into();
+    let t298 = Temperature::kelvin(298.15).unwrap();
+    let mut checked = 0;
+    for c in load("selectivity.toml") {
+        let id = c.id.as_str();
+        if skipped.contains(id) {
+            continue;
+        }
+        let t = || {
+            c.inputs
+                .get("temperature_k")
+                .map_or(t298, |_| temperature(&c))
+        };
+        let got = if id.starts_with("ratio-to-ddg-") {
+            let conv = Conversion::new(Given::Ratio(input(&c, "ratio")), t());
+            if id.ends_with("-kJ") {
+                conv.ddg_kj_mol
+            } else {
+                conv.ddg_kcal_mol
+            }
+        } else if id.starts_with("ee-to-ddg-") {
+            Conversion::new(Given::Excess(input(&c, "ee_percent")), t()).ddg_kcal_mol
+        } else if id.starts_with("ratio-to-ee-") {
+            Conversion::new(Given::Ratio(input(&c, "ratio")), t298).ee_percent
+        } else if id.starts_with("ee-to-ratio-") {
+            Conversion::new(Given::Excess(input(&c, "ee_percent")), t298).ratio
+        } else if id.starts_with("ddg-to-ratio-") || id.starts_with("ddg-to-ee-") {
+            let conv = Conversion::new(Given::Energy(input(&c, "ddg"), unit(&c)), t());
+            if id.starts_with("ddg-to-ratio-") {
+                conv.ratio
+            } else {
+                conv.ee_percent
+            }
+        } else if id.starts_with("ch-distribution-") {
+            let tss = c.inputs["ts_g"].as_table().unwrap();
+            let names: Vec<&String> = tss.keys().collect();
+            let g: Vec<f64> = tss.values().map(|v| v.as_float().unwrap()).collect();
+            let want = c.inputs["product_ts"].as_str().unwrap();
+            let i = names.iter().position(|n| *n == want).unwrap();
+            boltzmann_fractions(&g, kcal, t())[i]
+        } else {
+            panic!("reference entry {id} is neither checked nor skipped");
+        };
+        assert_close(&c, got);
+        checked += 1;
+    }
+    assert_eq!(checked, 46, "selectivity entries checked");
+}

@@ -3,10 +3,12 @@
 //! - [`eyring`]: rate constants and half-lives from barriers, in log space.
 //! - [`analysis`]: every step's barriers and rate constants in both
 //!   directions, and every path's apparent barrier.
+//! - [`selectivity`]: ratio ↔ ee ↔ ΔΔG‡ and Curtin–Hammett Boltzmann weights.
 //! - [`span`]: the energetic span model of a catalytic cycle.
 
 pub mod analysis;
 pub mod eyring;
+pub mod selectivity;
 pub mod span;
 
 pub use analysis::{Analysis, PathBarrier, StepKinetics, analyze};
