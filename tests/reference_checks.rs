@@ -351,3 +351,91 @@ fn selectivity_conversions() {
     }
     assert_eq!(checked, 46, "selectivity entries checked");
 }
+
+#[test]
+fn winstein_holness_exact_solution() {
+    // Source: exact first-order solution of A ⇌ B, A → C, B → D (Seeman, Chem. Rev.
+    // 1983, 83, 83; Winstein & Holness, J. Am. Chem. Soc. 1955, 77, 5562), as tabulated
+    // in tests/reference/winstein_holness.toml (cross-checked there with scipy solve_ivp
+    // and expm). Rate constants come from eyrie's Eyring function.
+    use eyrie::kinetics::winstein_holness::TwoPools;
+    let path = format!(
+        "{}/tests/reference/winstein_holness.toml",
+        env!("CARGO_MANIFEST_DIR")
+    );
+    let doc: toml::Table = std::fs::read_to_string(path).unwrap().parse().unwrap();
+    let systems = doc["system"].as_array().unwrap();
+    let setup = |name: &str| {
+        let s = systems
+            .iter()
+            .find(|s| s["name"].as_str() == Some(name))
+            .unwrap();
+        let g = |k: &str| s[k].as_float().unwrap();
+        let unit = EnergyUnit::parse(s["unit"].as_str().unwrap()).unwrap();
+        let t = Temperature::kelvin(g("temperature_k")).unwrap();
+        let k = |dg: f64| rate_constant(dg, unit, t, 1.0).per_second();
+        let pools = TwoPools {
+            k1: k(g("g_TS_AB") - g("g_A")),
+            k_1: k(g("g_TS_AB") - g("g_B")),
+            ka: k(g("g_TS_AC") - g("g_A")),
+            kb: k(g("g_TS_BD") - g("g_B")),
+        };
+        let start = if s["start"].as_str() == Some("pure A") {
+            (1.0, 0.0)
+        } else {
+            let xb = pools.k1 / (pools.k1 + pools.k_1);
+            (1.0 - xb, xb)
+        };
+        (pools, start, unit, t, s.clone())
+    };
+    let mut checked = 0;
+    for c in load("winstein_holness.toml") {
+        let id = c.id.as_str();
+        let got = if id == "wh-curtin-hammett-limit" || id == "wh-quench-limit-equilibrium-start" {
+            let (_, (a0, b0), unit, t, s) = setup("fast-boltzmann");
+            let g = |k: &str| s[k].as_float().unwrap();
+            if id == "wh-curtin-hammett-limit" {
+                (-(g("g_TS_BD") - g("g_TS_AC")) / t.rt(unit)).exp()
+            } else {
+                b0 / a0
+            }
+        } else {
+            // Ids: wh-<regime>-<what> with inputs.system naming the system.
+            let system = c.inputs["system"].as_str().unwrap().to_string();
+            let (p, (a0, b0), _, _, _) = setup(&system);
+            let regime = system.split('-').next().unwrap();
+            let what = id.strip_prefix(&format!("wh-{regime}-")).unwrap();
+            let what = what
+                .strip_prefix("boltzmann-")
+                .or_else(|| what.strip_prefix("pureA-"))
+                .unwrap_or(what);
+            match what {
+                "k1" => p.k1,
+                "k-1" => p.k_1,
+                "kA" => p.ka,
+                "kB" => p.kb,
+                "lambda-fast" => p.eigenvalues().0,
+                "lambda-slow" => p.eigenvalues().1,
+                "k-observed" => p.k_observed(),
+                "final-ratio" => p.final_ratio(a0, b0),
+                "final-fraction-D" => {
+                    let r = p.final_ratio(a0, b0);
+                    r / (1.0 + r)
+                }
+                w if w.starts_with("conc-") => {
+                    let x = p.at(input(&c, "time_s"), a0, b0);
+                    match &w[5..6] {
+                        "A" => x.a,
+                        "B" => x.b,
+                        "C" => x.c,
+                        _ => x.d,
+                    }
+                }
+                other => panic!("{id}: unhandled quantity {other}"),
+            }
+        };
+        assert_close(&c, got);
+        checked += 1;
+    }
+    assert_eq!(checked, 45, "Winstein–Holness entries checked");
+}

@@ -5,11 +5,13 @@
 //!   directions, and every path's apparent barrier.
 //! - [`selectivity`]: ratio ↔ ee ↔ ΔΔG‡ and Curtin–Hammett Boltzmann weights.
 //! - [`span`]: the energetic span model of a catalytic cycle.
+//! - [`winstein_holness`]: exact solution of A ⇌ B, A → C, B → D.
 
 pub mod analysis;
 pub mod eyring;
 pub mod selectivity;
 pub mod span;
+pub mod winstein_holness;
 
 pub use analysis::{Analysis, PathBarrier, StepKinetics, analyze};
 pub use eyring::{RateConstant, barrier_for_half_life, barrier_for_rate, rate_constant};
