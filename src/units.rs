@@ -16,6 +16,13 @@ pub const AVOGADRO: f64 = 6.02214076e23;
 pub const GAS_CONSTANT: f64 = AVOGADRO * BOLTZMANN;
 /// Elementary charge in C (CODATA 2018, exact); 1 eV per particle is e·NA J/mol.
 pub const ELEMENTARY_CHARGE: f64 = 1.602176634e-19;
+/// Speed of light in vacuum in m/s (CODATA 2018, exact): turns wavenumbers into energies.
+pub const SPEED_OF_LIGHT: f64 = 299_792_458.0;
+/// Standard atmosphere in Pa (10th CGPM, 1954): the pressure standard state of most
+/// gas-phase quantum-chemistry outputs.
+pub const ATMOSPHERE: f64 = 101_325.0;
+/// 1 bar in Pa (IUPAC standard pressure).
+pub const BAR: f64 = 100_000.0;
 /// Thermochemical calorie in J (NIST SP 811).
 pub const CALORIE: f64 = 4.184;
 /// 1 hartree per particle, in kJ/mol: CODATA 2018 Eh·NA to 10 digits (the value the
@@ -114,6 +121,11 @@ impl EnergyUnit {
             "hartree" | "ha" | "eh" | "au" | "a.u." => Some(EnergyUnit::Hartree),
             _ => None,
         }
+    }
+
+    /// The energy of one wavenumber (cm⁻¹) per mole, h·c·NA·100 m⁻¹, in this unit.
+    pub fn per_wavenumber(self) -> f64 {
+        self.from_j_per_mol(PLANCK * SPEED_OF_LIGHT * AVOGADRO * 100.0)
     }
 
     /// Decimal places that show energies in this unit at the usual precision.

@@ -30,7 +30,10 @@ fn load(file: &str) -> Vec<Check> {
             let tol = c["tolerance"].as_table().expect("tolerance");
             Check {
                 id: c["id"].as_str().unwrap().to_string(),
-                value: c["value"].as_float().unwrap_or(f64::NAN),
+                value: c
+                    .get("value")
+                    .and_then(|v| v.as_float())
+                    .unwrap_or(f64::NAN),
                 rel: tol.get("rel").and_then(|v| v.as_float()).unwrap_or(0.0),
                 abs: tol.get("abs").and_then(|v| v.as_float()).unwrap_or(0.0),
                 inputs: c["inputs"].as_table().cloned().unwrap_or_default(),
@@ -65,26 +68,21 @@ fn unit(c: &Check) -> EnergyUnit {
 fn constants_match_codata_2018() {
     // Source: CODATA 2018 (Tiesinga et al., Rev. Mod. Phys. 2021, 93, 025010) and the
     // thermochemical calorie, as tabulated in tests/reference/constants.toml.
-    let skipped: BTreeSet<&str> = [
-        // Not used by eyrie yet: pressures and light belong to the standard-state and
-        // tunnelling work of later issues.
-        "const-c",
-        "const-atm",
-        "const-bar",
-        "const-R-L-atm",
-        "const-R-L-bar",
-        "const-c2",
-        "const-wavenumber-kcal",
-        "const-wavenumber-kJ",
-    ]
-    .into();
     let kcal = EnergyUnit::KcalPerMol;
     let mut checked = 0;
     for c in load("constants.toml") {
         let t = || Temperature::kelvin(input(&c, "temperature_k")).unwrap();
         let got = match c.id.as_str() {
-            id if skipped.contains(id) => continue,
             "const-kB" => units::BOLTZMANN,
+            "const-c" => units::SPEED_OF_LIGHT,
+            "const-atm" => units::ATMOSPHERE,
+            "const-bar" => units::BAR,
+            // L·atm and L·bar: R × 1000 L/m³ / p.
+            "const-R-L-atm" => units::GAS_CONSTANT * 1000.0 / units::ATMOSPHERE,
+            "const-R-L-bar" => units::GAS_CONSTANT * 1000.0 / units::BAR,
+            "const-c2" => units::PLANCK * units::SPEED_OF_LIGHT / units::BOLTZMANN * 100.0,
+            "const-wavenumber-kcal" => kcal.per_wavenumber(),
+            "const-wavenumber-kJ" => EnergyUnit::KjPerMol.per_wavenumber(),
             "const-h" => units::PLANCK,
             "const-NA" => units::AVOGADRO,
             "const-e" => units::ELEMENTARY_CHARGE,
@@ -119,7 +117,7 @@ fn constants_match_codata_2018() {
         assert_close(&c, got);
         checked += 1;
     }
-    assert_eq!(checked, 23, "number of constants checked");
+    assert_eq!(checked, 31, "number of constants checked");
 }
 
 #[test]
@@ -438,4 +436,98 @@ fn winstein_holness_exact_solution() {
         checked += 1;
     }
     assert_eq!(checked, 45, "Winstein–Holness entries checked");
+}
+
+#[test]
+fn tunnelling_corrections() {
+    // Source: Wigner κ = 1 + u²/24 (Wigner, Z. Phys. Chem. B 1932, 19, 203); Bell's
+    // truncated κ = (u/2)/sin(u/2), valid for u < 2π (Bell, The Tunnel Effect in
+    // Chemistry, 1980); values in tests/reference/tunnelling.toml.
+    use eyrie::kinetics::corrections::{bell, bell_limit_cm, tunnelling_u, wigner};
+    let path = format!(
+        "{}/tests/reference/tunnelling.toml",
+        env!("CARGO_MANIFEST_DIR")
+    );
+    let doc: toml::Table = std::fs::read_to_string(path).unwrap().parse().unwrap();
+    let mut checked = 0;
+    for (c, raw) in load("tunnelling.toml")
+        .into_iter()
+        .zip(doc["check"].as_array().unwrap())
+    {
+        let id = c.id.as_str();
+        let t = temperature(&c);
+        let nu = || input(&c, "imaginary_frequency_cm");
+        if id.starts_with("tunnel-bell-")
+            && raw.get("valid").and_then(|v| v.as_bool()) == Some(false)
+        {
+            let err = bell(nu(), t).expect_err(id);
+            assert!(err.to_string().contains("cm⁻¹"), "{id}: {err}");
+            checked += 1;
+            continue;
+        }
+        let got = if id.starts_with("tunnel-u-") {
+            tunnelling_u(nu(), t)
+        } else if id.starts_with("tunnel-wigner-") {
+            wigner(nu(), t)
+        } else if id.starts_with("tunnel-bell-limit-") {
+            bell_limit_cm(t)
+        } else if id.starts_with("tunnel-bell-minus-wigner-") {
+            bell(nu(), t).unwrap() - wigner(nu(), t)
+        } else if id.starts_with("tunnel-bell-") {
+            bell(nu(), t).unwrap()
+        } else if id.starts_with("tunnel-k-wigner-") {
+            let kappa = wigner(nu(), t);
+            rate_constant(input(&c, "dg"), unit(&c), t, kappa).per_second()
+        } else {
+            panic!("reference entry {id} is neither checked nor skipped");
+        };
+        assert_close(&c, got);
+        checked += 1;
+    }
+    assert_eq!(checked, 23, "tunnelling entries checked");
+}
+
+#[test]
+fn standard_state_and_pseudo_first_order() {
+    // Source: closed form G(1 mol/L) − G(p°) = RT·ln(c°RT/p°) per species, and the
+    // pseudo-first-order shift −RT·ln(c/c°); values in tests/reference/standard_state.toml.
+    use eyrie::kinetics::corrections::{
+        PressureStandard, pseudo_first_order_shift, standard_state_shift,
+    };
+    let kcal = EnergyUnit::KcalPerMol;
+    let mut checked = 0;
+    for c in load("standard_state.toml") {
+        let id = c.id.as_str();
+        let t = || temperature(&c);
+        let got = if id.starts_with("stdstate-atm-to-molar-") {
+            let u = if id.ends_with("kJ") {
+                EnergyUnit::KjPerMol
+            } else {
+                kcal
+            };
+            standard_state_shift(PressureStandard::Atmosphere, t(), u)
+        } else if id.starts_with("stdstate-bar-to-molar-") {
+            standard_state_shift(PressureStandard::Bar, t(), kcal)
+        } else if id == "stdstate-molar-volume-298.15K-atm" {
+            units::GAS_CONSTANT * t().k() / units::ATMOSPHERE * 1000.0
+        } else if id == "stdstate-bimolecular-barrier-298.15K" {
+            let dn = c.inputs["molecularity_change"].as_integer().unwrap() as f64;
+            input(&c, "dg_1atm")
+                + dn * standard_state_shift(PressureStandard::Atmosphere, t(), kcal)
+        } else if id == "stdstate-unimolecular-shift" {
+            let dn = c.inputs["molecularity_change"].as_integer().unwrap() as f64;
+            let t298 = Temperature::kelvin(298.15).unwrap();
+            dn * standard_state_shift(PressureStandard::Atmosphere, t298, kcal)
+        } else if id.starts_with("pseudo-first-order-shift-") {
+            pseudo_first_order_shift(input(&c, "concentration_mol_per_l"), t(), kcal)
+        } else if id == "pseudo-first-order-k-298.15K" {
+            let shift = pseudo_first_order_shift(input(&c, "concentration_mol_per_l"), t(), kcal);
+            rate_constant(input(&c, "dg") + shift, unit(&c), t(), 1.0).per_second()
+        } else {
+            panic!("reference entry {id} is neither checked nor skipped");
+        };
+        assert_close(&c, got);
+        checked += 1;
+    }
+    assert_eq!(checked, 15, "standard-state entries checked");
 }

@@ -1,5 +1,6 @@
 //! Pure kinetics over a validated model: never prints, never writes files.
 //!
+//! - [`corrections`]: tunnelling (Wigner, Bell), standard state, pseudo-first order.
 //! - [`eyring`]: rate constants and half-lives from barriers, in log space.
 //! - [`analysis`]: every step's barriers and rate constants in both
 //!   directions, and every path's apparent barrier.
@@ -8,6 +9,7 @@
 //! - [`winstein_holness`]: exact solution of A ⇌ B, A → C, B → D.
 
 pub mod analysis;
+pub mod corrections;
 pub mod eyring;
 pub mod selectivity;
 pub mod span;
