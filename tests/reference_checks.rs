@@ -415,7 +415,21 @@ fn winstein_holness_exact_solution() {
                 "lambda-fast" => p.eigenvalues().0,
                 "lambda-slow" => p.eigenvalues().1,
                 "k-observed" => p.k_observed(),
-                "final-ratio" => p.final_ratio(a0, b0),
+                "final-ratio" => {
+                    // The same number by network state reduction (an independent route).
+                    use eyrie::kinetics::partition::Network;
+                    let mut net = Network::new(4);
+                    net.add(0, 1, p.k1);
+                    net.add(1, 0, p.k_1);
+                    net.add(0, 2, p.ka);
+                    net.add(1, 3, p.kb);
+                    let traps = [false, false, true, true];
+                    let (fa, fb) = (net.absorption(0, &traps), net.absorption(1, &traps));
+                    let into_c = a0 * fa[2] + b0 * fb[2];
+                    let into_d = a0 * fa[3] + b0 * fb[3];
+                    assert_close(&c, into_d / into_c);
+                    p.final_ratio(a0, b0)
+                }
                 "final-fraction-D" => {
                     let r = p.final_ratio(a0, b0);
                     r / (1.0 + r)

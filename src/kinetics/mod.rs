@@ -4,6 +4,7 @@
 //! - [`eyring`]: rate constants and half-lives from barriers, in log space.
 //! - [`analysis`]: every step's barriers and rate constants in both
 //!   directions, and every path's apparent barrier.
+//! - [`partition`]: final product fractions of a first-order network from any start.
 //! - [`selectivity`]: ratio ↔ ee ↔ ΔΔG‡ and Curtin–Hammett Boltzmann weights.
 //! - [`span`]: the energetic span model of a catalytic cycle.
 //! - [`winstein_holness`]: exact solution of A ⇌ B, A → C, B → D.
@@ -11,6 +12,7 @@
 pub mod analysis;
 pub mod corrections;
 pub mod eyring;
+pub mod partition;
 pub mod selectivity;
 pub mod span;
 pub mod winstein_holness;
