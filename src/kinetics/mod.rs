@@ -5,6 +5,7 @@
 //! - [`analysis`]: every step's barriers and rate constants in both
 //!   directions, and every path's apparent barrier.
 //! - [`partition`]: final product fractions of a first-order network from any start.
+//! - [`regime`]: Curtin–Hammett, kinetic-quench or intermediate, and the product fractions.
 //! - [`selectivity`]: ratio ↔ ee ↔ ΔΔG‡ and Curtin–Hammett Boltzmann weights.
 //! - [`span`]: the energetic span model of a catalytic cycle.
 //! - [`winstein_holness`]: exact solution of A ⇌ B, A → C, B → D.
@@ -13,6 +14,7 @@ pub mod analysis;
 pub mod corrections;
 pub mod eyring;
 pub mod partition;
+pub mod regime;
 pub mod selectivity;
 pub mod span;
 pub mod winstein_holness;
