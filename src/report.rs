@@ -25,6 +25,27 @@ pub struct AnalysisReport {
     pub steps: Vec<StepReport>,
     /// Every path's apparent barrier.
     pub paths: Vec<PathReport>,
+    /// Which barriers decide the product ratio; null with fewer than two products.
+    pub selectivity: Option<SelectivityReport>,
+}
+
+/// The Curtin–Hammett regime analysis.
+#[derive(Debug, Clone, Serialize)]
+pub struct SelectivityReport {
+    /// "curtin-hammett", "kinetic-quench" or "intermediate".
+    pub regime: &'static str,
+    /// Final fraction of each product (summing to 1).
+    pub products: std::collections::BTreeMap<String, f64>,
+    /// The deciding energy difference, in `unit`.
+    pub ddg: f64,
+    /// By how much the deciding comparison was met, in `unit`.
+    pub margin: f64,
+    /// The threshold used: RT·ln 100 (a rate factor of 100), in `unit`.
+    pub threshold: f64,
+    /// The starting state(s).
+    pub start: Vec<String>,
+    /// The reason in words, with the numbers that decide it.
+    pub reason: String,
 }
 
 /// One stationary point.
@@ -132,6 +153,16 @@ impl AnalysisReport {
                 }
             })
             .collect();
+        let selectivity =
+            crate::kinetics::regime::selectivity(model, None).map(|s| SelectivityReport {
+                regime: s.regime.name(),
+                products: s.products.iter().map(|&(p, f)| (id(p), f)).collect(),
+                ddg: s.ddg,
+                margin: s.margin,
+                threshold: s.threshold,
+                start: s.start.iter().map(|&p| id(p)).collect(),
+                reason: s.reason.clone(),
+            });
         AnalysisReport {
             title: model.title().map(str::to_string),
             temperature_k: analysis.temperature.k(),
@@ -140,6 +171,7 @@ impl AnalysisReport {
             points,
             steps,
             paths,
+            selectivity,
         }
     }
 }
