@@ -26,6 +26,9 @@ pub struct Diagnostic {
     pub message: String,
     /// How to fix it, when there is a useful suggestion.
     pub help: Option<String>,
+    /// Other places that explain the problem (e.g. "first defined here"),
+    /// drawn as secondary underlines in the same excerpt.
+    pub related: Vec<(Range<usize>, String)>,
 }
 
 impl Diagnostic {
@@ -36,6 +39,7 @@ impl Diagnostic {
             span,
             message: message.into(),
             help: None,
+            related: Vec::new(),
         }
     }
 
@@ -46,12 +50,20 @@ impl Diagnostic {
             span,
             message: message.into(),
             help: None,
+            related: Vec::new(),
         }
     }
 
     /// Adds a suggestion of how to fix the problem.
     pub fn with_help(mut self, help: impl Into<String>) -> Diagnostic {
         self.help = Some(help.into());
+        self
+    }
+
+    /// Points at another place that explains the problem, e.g. where a
+    /// duplicated id was first defined.
+    pub fn with_related(mut self, span: Range<usize>, note: impl Into<String>) -> Diagnostic {
+        self.related.push((span, note.into()));
         self
     }
 
@@ -114,7 +126,14 @@ impl Source {
             } else {
                 CsDiag::warning()
             };
-            cs = cs.with_labels(vec![Label::primary((), span)]);
+            let mut labels = vec![Label::primary((), span)];
+            for (related, note) in &d.related {
+                labels.push(
+                    Label::secondary((), clamp_span(&self.text, related.clone()))
+                        .with_message(note.as_str()),
+                );
+            }
+            cs = cs.with_labels(labels);
             if let Some(help) = &d.help {
                 cs = cs.with_notes(vec![format!("help: {help}")]);
             }
