@@ -5,7 +5,19 @@
 //! Layout never computes kinetics and never reads a profile; the renderer
 //! never sees anything but the scene.
 
+mod axis;
+mod columns;
+mod legend;
+mod place;
+mod scene;
+mod style;
+pub mod text;
+
+pub use scene::{Anchor, Colour, Item, Line, Rect, Role, Scene, Tag, Text};
+pub use style::{OKABE_ITO, Style};
+
 use crate::model::Kind;
+use place::{Placer, Request, Side};
 
 /// One stationary point as it is to be shown.
 #[derive(Debug, Clone, PartialEq)]
@@ -42,4 +54,424 @@ pub struct DiagramSpec {
     pub points: Vec<ShownPoint>,
     /// Paths in drawing order.
     pub paths: Vec<ShownPath>,
+}
+
+/// Lays out `spec` on a page of `style`'s size.
+///
+/// Steps: energy axis and its nice ticks → columns from the path graph →
+/// bars and connectors → collision-checked placement of values and labels →
+/// a legend where it covers nothing. If no such spot is left for the legend,
+/// the page is laid out again with a strip reserved for it at the top.
+/// Never panics: non-finite energies and out-of-range path indices are
+/// skipped, and an empty spec gives an empty axis.
+///
+/// When some text finds no free spot at the style's sizes, the whole figure
+/// is laid out again with smaller type (never below `min_text_pt`), so a
+/// crowded figure shrinks uniformly instead of overlapping.
+pub fn layout(spec: &DiagramSpec, style: &Style) -> Scene {
+    let mut last = None;
+    for scale in [1.0, 0.9, 0.8, 0.7] {
+        let mut s = style.clone();
+        for size in [&mut s.label_pt, &mut s.value_pt] {
+            *size = (*size * scale).max(style.min_text_pt.min(*size));
+        }
+        let (mut scene, mut fit) = build(spec, &s, 0.0);
+        if !fit.legend {
+            let strip = legend::strip_height(&legend::entries(spec, &s), &s);
+            (scene, fit) = build(spec, &s, strip);
+        }
+        if fit.texts {
+            return scene;
+        }
+        last = Some(scene);
+    }
+    last.expect("at least one pass")
+}
+
+/// What fitted in one pass.
+struct Fit {
+    /// Every value and label found a free spot.
+    texts: bool,
+    /// The legend (if needed) found a free spot.
+    legend: bool,
+}
+
+/// One laid-out pass.
+fn build(spec: &DiagramSpec, style: &Style, legend_strip: f64) -> (Scene, Fit) {
+    let n = spec.points.len();
+    let drawable: Vec<bool> = spec.points.iter().map(|p| p.value.is_finite()).collect();
+    // Paths restricted to drawable points, keeping each path's own index
+    // (its colour and dash) and dropping repeats of the same point in a row.
+    let paths: Vec<(usize, Vec<usize>)> = spec
+        .paths
+        .iter()
+        .enumerate()
+        .map(|(i, p)| {
+            let mut via: Vec<usize> = Vec::new();
+            for &v in &p.via {
+                if v < n && drawable[v] && via.last() != Some(&v) {
+                    via.push(v);
+                }
+            }
+            (i, via)
+        })
+        .collect();
+    let mut colour: Vec<Option<usize>> = vec![None; n];
+    for (i, via) in &paths {
+        for &v in via {
+            colour[v].get_or_insert(*i);
+        }
+    }
+
+    // Vertical scale.
+    let values: Vec<f64> = (0..n)
+        .filter(|&i| drawable[i])
+        .map(|i| spec.points[i].value)
+        .collect();
+    let lo = values.iter().copied().fold(f64::INFINITY, f64::min);
+    let hi = values.iter().copied().fold(f64::NEG_INFINITY, f64::max);
+    let ticks = if values.is_empty() {
+        axis::nice_ticks(0.0, 0.0)
+    } else {
+        axis::nice_ticks(lo, hi)
+    };
+    let tick_texts: Vec<String> = ticks
+        .values
+        .iter()
+        .map(|&t| crate::format::energy(t, ticks.decimals, true))
+        .collect();
+
+    let m = style.margin_mm;
+    let em = |pt: f64| pt * text::PT_MM;
+    let text_h = |pt: f64| em(pt) * (text::ASCENT + text::DESCENT);
+    let tick_w = tick_texts
+        .iter()
+        .map(|t| text::width_mm(t, style.tick_pt))
+        .fold(0.0, f64::max);
+    let tick_len = 1.0;
+    let axis_x = m + text_h(style.axis_label_pt) + 1.0 + tick_w + 0.6 + tick_len;
+    let plot_x0 = axis_x + 1.0;
+    let plot_x1 = (style.width_mm - m).max(plot_x0 + 1.0);
+    let caption_h = match &style.x_caption {
+        Some(c) if !c.is_empty() => text_h(style.tick_pt) + 0.5,
+        _ => 0.0,
+    };
+    let top_y = m + legend_strip + text_h(style.value_pt) + 0.8;
+    let bottom_y =
+        (style.height_mm - m - caption_h - text_h(style.label_pt) - 0.8).max(top_y + 1.0);
+    let (t0, t1) = (ticks.values[0], *ticks.values.last().unwrap());
+    let y_of = |v: f64| bottom_y - (v - t0) / (t1 - t0) * (bottom_y - top_y);
+
+    // Horizontal positions.
+    let mut cols = columns::assign(n, &paths.iter().map(|(_, v)| v.clone()).collect::<Vec<_>>());
+    let mut next = cols.iter().flatten().fold(-1.0f64, |a, &c| a.max(c.ceil())) + 1.0;
+    for i in 0..n {
+        if drawable[i] && cols[i].is_none() {
+            cols[i] = Some(next);
+            next += 1.0;
+        }
+    }
+    let ncols = next.max(1.0);
+    let col_w = (plot_x1 - plot_x0) / ncols;
+    let base_bar = style.bar_width_mm.min(0.65 * col_w);
+    let mut x = vec![0.0; n];
+    let mut bar_w = vec![base_bar; n];
+    let y: Vec<f64> = (0..n)
+        .map(|i| {
+            if drawable[i] {
+                y_of(spec.points[i].value)
+            } else {
+                0.0
+            }
+        })
+        .collect();
+    for i in 0..n {
+        if let Some(c) = cols[i] {
+            x[i] = plot_x0 + (c + 0.5) * col_w;
+        }
+    }
+    // Points sharing a column whose texts would stack into each other get
+    // side-by-side sub-slots.
+    let up = text_h(style.value_pt) + 0.6;
+    let down = text_h(style.label_pt) + 0.6;
+    let mut order: Vec<usize> = (0..n).filter(|&i| cols[i].is_some()).collect();
+    order.sort_by(|&a, &b| {
+        cols[a]
+            .unwrap()
+            .total_cmp(&cols[b].unwrap())
+            .then(a.cmp(&b))
+    });
+    let mut start = 0;
+    while start < order.len() {
+        let mut end = start + 1;
+        while end < order.len() && cols[order[end]].unwrap() - cols[order[end - 1]].unwrap() < 0.75
+        {
+            end += 1;
+        }
+        let mut cluster: Vec<usize> = order[start..end].to_vec();
+        cluster.sort_by(|&a, &b| y[a].total_cmp(&y[b]).then(a.cmp(&b)));
+        let mut slot_bottom: Vec<f64> = Vec::new();
+        let mut slot_of = Vec::new();
+        for &p in &cluster {
+            let top = y[p] - up;
+            let s = match slot_bottom.iter().position(|&b| b <= top) {
+                Some(s) => s,
+                None => {
+                    slot_bottom.push(f64::NEG_INFINITY);
+                    slot_bottom.len() - 1
+                }
+            };
+            slot_bottom[s] = y[p] + down;
+            slot_of.push(s);
+        }
+        let k = slot_bottom.len();
+        if k > 1 {
+            // Slots share the cluster's mean position, so they stay inside
+            // the column cell (and the page) whatever their own columns.
+            let centre = cluster.iter().map(|&p| x[p]).sum::<f64>() / cluster.len() as f64;
+            let sub = col_w / k as f64;
+            for (&p, &s) in cluster.iter().zip(&slot_of) {
+                x[p] = centre + (s as f64 - (k as f64 - 1.0) / 2.0) * sub;
+                bar_w[p] = bar_w[p].min(0.8 * sub);
+            }
+        }
+        start = end;
+    }
+
+    let mut items: Vec<Item> = Vec::new();
+    // Axis.
+    items.push(Item::Line(Line {
+        points: vec![(axis_x, y_of(t0)), (axis_x, y_of(t1))],
+        colour: style.ink,
+        width_pt: style.axis_pt,
+        dash: None,
+        role: Role::Axis,
+        tag: None,
+    }));
+    let mut fixed_texts: Vec<Text> = Vec::new();
+    for (t, label) in ticks.values.iter().zip(&tick_texts) {
+        let ty = y_of(*t);
+        items.push(Item::Line(Line {
+            points: vec![(axis_x - tick_len, ty), (axis_x, ty)],
+            colour: style.ink,
+            width_pt: style.axis_pt,
+            dash: None,
+            role: Role::Tick,
+            tag: None,
+        }));
+        fixed_texts.push(Text {
+            x: axis_x - tick_len - 0.6,
+            y: ty + (text::ASCENT - text::DESCENT) / 2.0 * em(style.tick_pt),
+            lines: vec![label.clone()],
+            size_pt: style.tick_pt,
+            anchor: Anchor::End,
+            colour: style.ink,
+            rotation: 0.0,
+            role: Role::TickLabel,
+            tag: None,
+        });
+    }
+    if !spec.axis_label.is_empty() {
+        fixed_texts.push(Text {
+            x: m + text::ASCENT * em(style.axis_label_pt),
+            y: (y_of(t0) + y_of(t1)) / 2.0,
+            lines: vec![spec.axis_label.clone()],
+            size_pt: style.axis_label_pt,
+            anchor: Anchor::Middle,
+            colour: style.ink,
+            rotation: -90.0,
+            role: Role::AxisLabel,
+            tag: None,
+        });
+    }
+    if let Some(caption) = style.x_caption.as_ref().filter(|c| !c.is_empty()) {
+        fixed_texts.push(Text {
+            x: (plot_x0 + plot_x1) / 2.0,
+            y: style.height_mm - m - text::DESCENT * em(style.tick_pt),
+            lines: vec![caption.clone()],
+            size_pt: style.tick_pt,
+            anchor: Anchor::Middle,
+            colour: style.ink,
+            rotation: 0.0,
+            role: Role::Caption,
+            tag: None,
+        });
+    }
+
+    // Connectors: each unordered pair of points once, in its first path's style.
+    let mut drawn: Vec<(usize, usize)> = Vec::new();
+    let mut segments = Vec::new();
+    for (pi, via) in &paths {
+        for w in via.windows(2) {
+            let (a, b) = (w[0], w[1]);
+            let key = (a.min(b), a.max(b));
+            if drawn.contains(&key) {
+                continue;
+            }
+            drawn.push(key);
+            let (from, to) = if x[b] >= x[a] {
+                ((x[a] + bar_w[a] / 2.0, y[a]), (x[b] - bar_w[b] / 2.0, y[b]))
+            } else {
+                ((x[a] - bar_w[a] / 2.0, y[a]), (x[b] + bar_w[b] / 2.0, y[b]))
+            };
+            segments.push((from, to));
+            items.push(Item::Line(Line {
+                points: vec![from, to],
+                colour: style.path_colour(*pi),
+                width_pt: style.connector_pt,
+                dash: style.path_dash(*pi),
+                role: Role::Connector,
+                tag: Some(Tag::Path(spec.paths[*pi].name.clone())),
+            }));
+        }
+    }
+
+    // Bars.
+    let half_t = style.bar_pt * text::PT_MM / 2.0;
+    let mut placer = Placer {
+        bounds: Rect {
+            x0: axis_x + 0.3,
+            y0: m + legend_strip,
+            x1: style.width_mm - m,
+            y1: style.height_mm - m,
+        },
+        blocked: fixed_texts.iter().map(Text::bbox).collect(),
+        segments,
+    };
+    let mut bars = Vec::new();
+    for i in 0..n {
+        if !drawable[i] {
+            continue;
+        }
+        let c = colour[i].map_or(style.ink, |p| style.path_colour(p));
+        bars.push(Item::Line(Line {
+            points: vec![(x[i] - bar_w[i] / 2.0, y[i]), (x[i] + bar_w[i] / 2.0, y[i])],
+            colour: c,
+            width_pt: style.bar_pt,
+            dash: None,
+            role: Role::Bar,
+            tag: Some(Tag::Point(spec.points[i].id.clone())),
+        }));
+        placer.block(Rect {
+            x0: x[i] - bar_w[i] / 2.0,
+            y0: y[i] - half_t,
+            x1: x[i] + bar_w[i] / 2.0,
+            y1: y[i] + half_t,
+        });
+    }
+
+    // Values first (short, and the number a reader looks for), then labels.
+    let mut by_x: Vec<usize> = (0..n).filter(|&i| drawable[i]).collect();
+    by_x.sort_by(|&a, &b| {
+        x[a].total_cmp(&x[b])
+            .then(y[a].total_cmp(&y[b]))
+            .then(a.cmp(&b))
+    });
+    let mut leaders = Vec::new();
+    let mut placed_texts = Vec::new();
+    let mut texts_fit = true;
+    for (role, side) in [(Role::Value, Side::Above), (Role::Label, Side::Below)] {
+        for &i in &by_x {
+            let p = &spec.points[i];
+            let (content, size) = match role {
+                Role::Value => (&p.value_text, style.value_pt),
+                _ => (&p.label, style.label_pt),
+            };
+            if content.trim().is_empty() {
+                continue;
+            }
+            let req = Request {
+                x: x[i],
+                y: y[i],
+                half_thickness: half_t,
+                side,
+                text: content,
+                size_pt: size,
+                min_pt: style.min_text_pt.min(size),
+                breakable: role == Role::Label,
+            };
+            let cands = place::candidates(&req);
+            let origin = match side {
+                Side::Above => (x[i], y[i] - half_t),
+                Side::Below => (x[i], y[i] + half_t),
+            };
+            let chosen = match placer.choose(&cands, origin) {
+                Some(c) => c.clone(),
+                None => {
+                    texts_fit = false;
+                    cands[0].clone()
+                }
+            };
+            let r = chosen.bbox();
+            placer.block(r);
+            // A text that no longer sits over its bar, or sits more than two
+            // lines away from it, gets a leader line back to the bar.
+            let (bx0, bx1) = (x[i] - bar_w[i] / 2.0, x[i] + bar_w[i] / 2.0);
+            let vertical_gap = (r.y0 - y[i]).max(y[i] - r.y1).max(0.0);
+            let far = 2.0 * text::LINE_HEIGHT * em(chosen.size_pt) + 1.0;
+            if chosen.leader || r.x1 < bx0 || r.x0 > bx1 || vertical_gap > far {
+                let from = origin;
+                let to = r.nearest(from.0, from.1);
+                placer.segments.push((from, to));
+                leaders.push(Item::Line(Line {
+                    points: vec![from, to],
+                    colour: style.leader,
+                    width_pt: style.connector_pt * 0.6,
+                    dash: None,
+                    role: Role::Leader,
+                    tag: Some(Tag::Point(p.id.clone())),
+                }));
+            }
+            placed_texts.push(Item::Text(Text {
+                x: chosen.x,
+                y: chosen.y,
+                lines: chosen.lines,
+                size_pt: chosen.size_pt,
+                anchor: chosen.anchor,
+                colour: style.ink,
+                rotation: 0.0,
+                role,
+                tag: Some(Tag::Point(p.id.clone())),
+            }));
+        }
+    }
+
+    items.extend(leaders);
+    items.extend(bars);
+    items.extend(fixed_texts.into_iter().map(Item::Text));
+    items.extend(placed_texts);
+
+    let entries = legend::entries(spec, style);
+    let mut legend_ok = true;
+    if entries.len() > 1 {
+        let area = legend::Area {
+            x0: plot_x0,
+            x1: plot_x1,
+            y0: m,
+            y1: style.height_mm - m - caption_h,
+        };
+        let drawn = if legend_strip > 0.0 {
+            Some(legend::in_strip(&entries, style, plot_x0, plot_x1, m))
+        } else {
+            legend::floating(&entries, style, &area, &placer)
+        };
+        match drawn {
+            Some(legend_items) => items.extend(legend_items),
+            None => legend_ok = false,
+        }
+    }
+
+    (
+        Scene {
+            width_mm: style.width_mm,
+            height_mm: style.height_mm,
+            title: spec.title.clone(),
+            font_family: style.font_family.clone(),
+            items,
+        },
+        Fit {
+            texts: texts_fit,
+            legend: legend_ok,
+        },
+    )
 }

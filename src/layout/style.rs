@@ -1,0 +1,116 @@
+//! The look of a figure: page size, fonts, line widths and colours. Sizes are
+//! in the units journals state them in (mm for the page, pt for type and
+//! lines) so a figure can be made at its final printed size.
+
+use super::scene::Colour;
+
+/// Okabe, M. & Ito, K. (2008) "Color Universal Design (CUD): how to make
+/// figures and presentations that are friendly to colorblind people",
+/// <https://jfly.uni-koeln.de/color/>. Ordered so that neighbouring paths also
+/// differ in lightness (they stay apart in greyscale); the yellow of the
+/// original set is left out because it vanishes on white paper.
+pub const OKABE_ITO: [Colour; 7] = [
+    Colour::hex(0x0072B2), // blue
+    Colour::hex(0xD55E00), // vermillion
+    Colour::hex(0x009E73), // bluish green
+    Colour::hex(0xCC79A7), // reddish purple
+    Colour::hex(0x000000), // black
+    Colour::hex(0xE69F00), // orange
+    Colour::hex(0x56B4E9), // sky blue
+];
+
+/// Settings for one figure. `Default` is a single journal column.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Style {
+    /// Page width in mm (85 mm is a single column in most journals).
+    pub width_mm: f64,
+    /// Page height in mm.
+    pub height_mm: f64,
+    /// Font family list written into the figure.
+    pub font_family: String,
+    /// Size of point labels in pt.
+    pub label_pt: f64,
+    /// Size of energy values in pt.
+    pub value_pt: f64,
+    /// Size of tick numbers and the x caption in pt.
+    pub tick_pt: f64,
+    /// Size of the y-axis title in pt.
+    pub axis_label_pt: f64,
+    /// Smallest size the placement may shrink a label or value to, in pt
+    /// (5 pt is about the smallest type journals accept at final size).
+    pub min_text_pt: f64,
+    /// Stroke of the energy bars in pt.
+    pub bar_pt: f64,
+    /// Stroke of the connectors in pt.
+    pub connector_pt: f64,
+    /// Stroke of the axis and ticks in pt.
+    pub axis_pt: f64,
+    /// Preferred length of an energy bar in mm (shortened when columns are narrow).
+    pub bar_width_mm: f64,
+    /// One colour per path, reused cyclically.
+    pub palette: Vec<Colour>,
+    /// One dash pattern per path (mm), reused cyclically, so paths stay
+    /// distinct in greyscale print.
+    pub dashes: Vec<Vec<f64>>,
+    /// Colour of text, axis and points on no path.
+    pub ink: Colour,
+    /// Colour of leader lines.
+    pub leader: Colour,
+    /// Caption under the plot (`None` to omit).
+    pub x_caption: Option<String>,
+    /// Empty border around everything, in mm.
+    pub margin_mm: f64,
+}
+
+impl Default for Style {
+    fn default() -> Self {
+        Style {
+            width_mm: 85.0,
+            height_mm: 65.0,
+            // Widths are estimated with DejaVu Sans metrics, the widest of
+            // these, so the layout holds whichever one the reader has.
+            font_family: "Helvetica, Arial, 'DejaVu Sans', sans-serif".into(),
+            label_pt: 7.0,
+            value_pt: 7.0,
+            tick_pt: 7.0,
+            axis_label_pt: 8.0,
+            min_text_pt: 5.0,
+            bar_pt: 2.0,
+            connector_pt: 0.75,
+            axis_pt: 0.6,
+            bar_width_mm: 6.0,
+            palette: OKABE_ITO.to_vec(),
+            dashes: vec![
+                vec![1.2, 0.8],
+                vec![0.4, 0.6],
+                vec![2.4, 0.6, 0.4, 0.6],
+                vec![2.4, 1.2],
+                vec![0.8, 0.8, 0.8, 1.6],
+            ],
+            ink: Colour::hex(0x000000),
+            leader: Colour::hex(0x808080),
+            x_caption: Some("reaction coordinate".into()),
+            margin_mm: 1.0,
+        }
+    }
+}
+
+impl Style {
+    /// The colour of path number `i`.
+    pub fn path_colour(&self, i: usize) -> Colour {
+        if self.palette.is_empty() {
+            self.ink
+        } else {
+            self.palette[i % self.palette.len()]
+        }
+    }
+
+    /// The dash pattern of path number `i`.
+    pub fn path_dash(&self, i: usize) -> Option<Vec<f64>> {
+        if self.dashes.is_empty() {
+            None
+        } else {
+            Some(self.dashes[i % self.dashes.len()].clone())
+        }
+    }
+}

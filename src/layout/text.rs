@@ -1,0 +1,268 @@
+//! Text metrics without a font file: advance widths from a per-character
+//! table, and the line breaks the placement may try for a long label.
+//!
+//! The table holds DejaVu Sans advance widths (em fractions). DejaVu Sans is
+//! wider than Helvetica, Arial or Lato, so a layout that fits with these
+//! numbers also fits when the reader's viewer substitutes any of them.
+
+use super::scene::{Anchor, Rect};
+
+/// Millimetres per typographic point.
+pub const PT_MM: f64 = 25.4 / 72.0;
+/// Height above the baseline that glyphs may reach, in em.
+pub const ASCENT: f64 = 0.80;
+/// Depth below the baseline that glyphs may reach, in em.
+pub const DESCENT: f64 = 0.24;
+/// Baseline-to-baseline distance of multi-line text, in em.
+pub const LINE_HEIGHT: f64 = 1.15;
+/// Safety factor on every width estimate (kerning, hinting, rounding).
+const WIDTH_MARGIN: f64 = 1.03;
+
+/// Advance width of `c` in em.
+pub fn char_em(c: char) -> f64 {
+    match c {
+        ' ' => 0.318,
+        '!' => 0.400,
+        '"' => 0.460,
+        '#' => 0.838,
+        '$' => 0.636,
+        '%' => 0.950,
+        '&' => 0.780,
+        '\'' => 0.275,
+        '(' | ')' | '[' | ']' => 0.390,
+        '*' => 0.500,
+        '+' | '<' | '=' | '>' | '^' | '~' => 0.838,
+        ',' | '.' => 0.318,
+        '-' => 0.361,
+        '/' | ':' | ';' | '\\' | '|' => 0.337,
+        '0'..='9' => 0.636,
+        '?' => 0.531,
+        '@' => 1.000,
+        '_' | '`' => 0.500,
+        '{' | '}' => 0.636,
+        'A' | 'V' | 'X' | 'Z' => 0.685,
+        'B' => 0.686,
+        'C' => 0.698,
+        'D' => 0.770,
+        'E' => 0.632,
+        'F' => 0.575,
+        'G' => 0.775,
+        'H' => 0.752,
+        'I' | 'J' => 0.295,
+        'K' => 0.656,
+        'L' => 0.557,
+        'M' => 0.863,
+        'N' => 0.748,
+        'O' | 'Q' => 0.787,
+        'P' => 0.603,
+        'R' => 0.695,
+        'S' => 0.635,
+        'T' | 'Y' => 0.611,
+        'U' => 0.732,
+        'W' => 0.989,
+        'a' => 0.613,
+        'b' | 'd' | 'g' | 'p' | 'q' => 0.635,
+        'c' => 0.550,
+        'e' => 0.615,
+        'f' => 0.352,
+        'h' | 'n' | 'u' => 0.634,
+        'i' | 'j' | 'l' => 0.278,
+        'k' => 0.579,
+        'm' => 0.974,
+        'o' => 0.612,
+        'r' => 0.411,
+        's' => 0.521,
+        't' => 0.392,
+        'v' | 'x' | 'y' => 0.592,
+        'w' => 0.818,
+        'z' => 0.525,
+        '\u{2212}' => 0.838,              // minus sign
+        '\u{2021}' | '\u{2020}' => 0.500, // double dagger, dagger
+        '\u{00B7}' | '\u{2022}' => 0.318, // middle dot, bullet
+        '\u{2070}'..='\u{209F}' => 0.401, // super- and subscripts
+        '\u{00B9}' | '\u{00B2}' | '\u{00B3}' => 0.401,
+        '\u{0300}'..='\u{036F}' => 0.0, // combining marks
+        '\u{200B}'..='\u{200D}' | '\u{FEFF}' => 0.0,
+        c if c.is_control() => 0.0,
+        '\u{0391}'..='\u{03A9}' => 0.760, // Greek capitals
+        '\u{03B1}'..='\u{03C9}' => 0.640, // Greek small letters
+        '\u{1100}'..='\u{11FF}'
+        | '\u{2E80}'..='\u{A4CF}'
+        | '\u{AC00}'..='\u{D7A3}'
+        | '\u{F900}'..='\u{FAFF}'
+        | '\u{FF00}'..='\u{FF60}' => 1.0, // CJK and full-width forms
+        '\u{1F000}'..='\u{1FAFF}' => 1.2, // emoji and symbols
+        _ => 0.700,
+    }
+}
+
+/// Estimated width of one line of text in mm at `size_pt`.
+pub fn width_mm(line: &str, size_pt: f64) -> f64 {
+    line.chars().map(char_em).sum::<f64>() * size_pt * PT_MM * WIDTH_MARGIN
+}
+
+/// The bounding box of a block of lines whose first baseline is at `(x, y)`,
+/// rotated by `rotation` degrees (clockwise) about `(x, y)`.
+pub fn block_box(
+    x: f64,
+    y: f64,
+    lines: &[String],
+    size_pt: f64,
+    anchor: Anchor,
+    rotation: f64,
+) -> Rect {
+    let em = size_pt * PT_MM;
+    let w = lines
+        .iter()
+        .map(|l| width_mm(l, size_pt))
+        .fold(0.0, f64::max);
+    let n = lines.len().max(1) as f64;
+    let x0 = match anchor {
+        Anchor::Start => x,
+        Anchor::Middle => x - w / 2.0,
+        Anchor::End => x - w,
+    };
+    let upright = Rect {
+        x0,
+        y0: y - ASCENT * em,
+        x1: x0 + w,
+        y1: y + (n - 1.0) * LINE_HEIGHT * em + DESCENT * em,
+    };
+    if rotation == 0.0 {
+        return upright;
+    }
+    let (s, c) = rotation.to_radians().sin_cos();
+    let corners = [
+        (upright.x0, upright.y0),
+        (upright.x1, upright.y0),
+        (upright.x0, upright.y1),
+        (upright.x1, upright.y1),
+    ];
+    let mut r = Rect {
+        x0: f64::INFINITY,
+        y0: f64::INFINITY,
+        x1: f64::NEG_INFINITY,
+        y1: f64::NEG_INFINITY,
+    };
+    for (px, py) in corners {
+        let (dx, dy) = (px - x, py - y);
+        let (rx, ry) = (x + dx * c - dy * s, y + dx * s + dy * c);
+        r.x0 = r.x0.min(rx);
+        r.x1 = r.x1.max(rx);
+        r.y0 = r.y0.min(ry);
+        r.y1 = r.y1.max(ry);
+    }
+    r
+}
+
+/// Ways to set `label`: on one line, then its most balanced two- and
+/// three-line breaks (at spaces, or after a hyphen), narrowest last.
+/// Breaking is the first remedy for a label wider than its column.
+pub fn line_breaks(label: &str, size_pt: f64) -> Vec<Vec<String>> {
+    // Pieces end at a break opportunity; a space is dropped at the break.
+    let mut pieces: Vec<(String, bool)> = Vec::new(); // (text, ends with a dropped space)
+    let mut current = String::new();
+    for c in label.chars() {
+        if c == ' ' {
+            pieces.push((std::mem::take(&mut current), true));
+        } else {
+            current.push(c);
+            if c == '-' {
+                pieces.push((std::mem::take(&mut current), false));
+            }
+        }
+    }
+    pieces.push((current, false));
+    let join = |range: &[(String, bool)]| -> String {
+        let mut s = String::new();
+        for (i, (p, space)) in range.iter().enumerate() {
+            s.push_str(p);
+            if *space && i + 1 < range.len() {
+                s.push(' ');
+            }
+        }
+        s
+    };
+    let mut options = vec![vec![label.to_string()]];
+    let n = pieces.len();
+    let widest = |lines: &[String]| {
+        lines
+            .iter()
+            .map(|l| width_mm(l, size_pt))
+            .fold(0.0, f64::max)
+    };
+    let usable = |lines: &[String]| lines.iter().all(|l| !l.trim().is_empty());
+    let mut best2: Option<(f64, Vec<String>)> = None;
+    for i in 1..n {
+        let lines = vec![join(&pieces[..i]), join(&pieces[i..])];
+        if usable(&lines) {
+            let w = widest(&lines);
+            if best2.as_ref().is_none_or(|(bw, _)| w < *bw) {
+                best2 = Some((w, lines));
+            }
+        }
+    }
+    let mut best3: Option<(f64, Vec<String>)> = None;
+    if n <= 40 {
+        for i in 1..n {
+            for j in i + 1..n {
+                let lines = vec![join(&pieces[..i]), join(&pieces[i..j]), join(&pieces[j..])];
+                if usable(&lines) {
+                    let w = widest(&lines);
+                    if best3.as_ref().is_none_or(|(bw, _)| w < *bw) {
+                        best3 = Some((w, lines));
+                    }
+                }
+            }
+        }
+    }
+    let one = width_mm(label, size_pt);
+    if let Some((w2, l2)) = best2 {
+        if w2 < one * 0.9 {
+            options.push(l2);
+            if let Some((w3, l3)) = best3 {
+                if w3 < w2 * 0.9 {
+                    options.push(l3);
+                }
+            }
+        }
+    }
+    options
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn widths_scale_with_size_and_length() {
+        let a = width_mm("radical pair", 7.0);
+        assert!((width_mm("radical pair", 14.0) - 2.0 * a).abs() < 1e-9);
+        assert!(width_mm("radical pair radical pair", 7.0) > 2.0 * a);
+        assert!(width_mm("WWW", 7.0) > width_mm("iii", 7.0) * 2.0);
+        // "TS-recombination" is 9.45 em in DejaVu Sans; 7 pt = 2.469 mm.
+        let w = width_mm("TS-recombination", 7.0);
+        assert!((21.0..24.5).contains(&w), "{w}");
+    }
+
+    #[test]
+    fn breaks_are_balanced_and_keep_every_character() {
+        let opts = line_breaks("rearranged ketone product", 7.0);
+        assert_eq!(opts[0], vec!["rearranged ketone product"]);
+        assert_eq!(opts[1], vec!["rearranged", "ketone product"]);
+        let opts = line_breaks("TS-recombination", 7.0);
+        assert_eq!(opts[1], vec!["TS-", "recombination"]);
+        assert_eq!(line_breaks("pair", 7.0).len(), 1);
+        assert_eq!(line_breaks("", 7.0), vec![vec![String::new()]]);
+    }
+
+    #[test]
+    fn rotated_box_swaps_extent() {
+        let lines = vec!["ΔG (kcal mol⁻¹)".to_string()];
+        let flat = block_box(10.0, 30.0, &lines, 8.0, Anchor::Middle, 0.0);
+        let up = block_box(10.0, 30.0, &lines, 8.0, Anchor::Middle, -90.0);
+        assert!(((up.y1 - up.y0) - (flat.x1 - flat.x0)).abs() < 1e-9);
+        assert!(((up.x1 - up.x0) - (flat.y1 - flat.y0)).abs() < 1e-9);
+        assert!(up.y0 < 30.0 && up.y1 > 30.0);
+    }
+}
