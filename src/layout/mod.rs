@@ -156,7 +156,9 @@ fn build(spec: &DiagramSpec, style: &Style, legend_strip: f64) -> (Scene, Fit) {
         Some(c) if !c.is_empty() => text_h(style.tick_pt) + 0.5,
         _ => 0.0,
     };
-    let top_y = m + legend_strip + text_h(style.value_pt) + 0.8;
+    // Room for a value and a label stacked above the highest bar.
+    let top_y =
+        m + legend_strip + text_h(style.value_pt) + text::LINE_HEIGHT * em(style.label_pt) + 1.0;
     let bottom_y =
         (style.height_mm - m - caption_h - text_h(style.label_pt) - 0.8).max(top_y + 1.0);
     let (t0, t1) = (ticks.values[0], *ticks.values.last().unwrap());

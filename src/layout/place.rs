@@ -181,7 +181,7 @@ pub struct Request<'a> {
 /// Preference costs, in "mm of displacement" so they add up with distance.
 const OTHER_SIDE: f64 = 2.0;
 const STACK_LEVEL: f64 = 1.5;
-const EXTRA_LINE: f64 = 1.2;
+const EXTRA_LINE: f64 = 2.0;
 const PER_PT_SMALLER: f64 = 3.0;
 const FAR_AWAY: f64 = 8.0;
 /// How far (mm) a text may be moved from its bar, with a leader line.

@@ -167,7 +167,9 @@ pub fn line_breaks(label: &str, size_pt: f64) -> Vec<Vec<String>> {
             pieces.push((std::mem::take(&mut current), true));
         } else {
             current.push(c);
-            if c == '-' {
+            // Break after a hyphen only after a real word: "TS-" alone on a
+            // line reads as a stray prefix.
+            if c == '-' && current.chars().count() > 4 {
                 pieces.push((std::mem::take(&mut current), false));
             }
         }
@@ -250,8 +252,11 @@ mod tests {
         let opts = line_breaks("rearranged ketone product", 7.0);
         assert_eq!(opts[0], vec!["rearranged ketone product"]);
         assert_eq!(opts[1], vec!["rearranged", "ketone product"]);
-        let opts = line_breaks("TS-recombination", 7.0);
-        assert_eq!(opts[1], vec!["TS-", "recombination"]);
+        let opts = line_breaks("radical-pair recombination", 7.0);
+        assert_eq!(opts[1], vec!["radical-pair", "recombination"]);
+        let opts = line_breaks("ortho-quinone-methide", 7.0);
+        assert_eq!(opts[1], vec!["ortho-quinone-", "methide"]);
+        assert_eq!(line_breaks("TS-recombination", 7.0).len(), 1);
         assert_eq!(line_breaks("pair", 7.0).len(), 1);
         assert_eq!(line_breaks("", 7.0), vec![vec![String::new()]]);
     }
