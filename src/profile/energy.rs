@@ -63,8 +63,7 @@ pub(crate) fn resolve_zero(
 pub(crate) fn check_and_shift(
     g: &[f64],
     points: &[RawPoint],
-    unit: EnergyUnit,
-    unit_span: Range<usize>,
+    (unit, unit_span): (EnergyUnit, Range<usize>),
     zero: Option<PointId>,
     reference: PointId,
     errors: &mut Vec<Diagnostic>,

@@ -82,8 +82,7 @@ pub fn parse(text: &str) -> Result<Parsed, Vec<Diagnostic>> {
             let shifted = energy::check_and_shift(
                 g,
                 &points,
-                *unit,
-                unit_span.clone(),
+                (*unit, unit_span.clone()),
                 zero,
                 reference,
                 &mut errors,

@@ -87,8 +87,8 @@ fn earlier_line(text: &str, key: &str, before: usize) -> Option<Range<usize>> {
         let trimmed = line.trim_start();
         let indent = line.len() - trimmed.len();
         let inner = trimmed.trim_start_matches('[').trim_start();
-        if inner.starts_with(key) {
-            let after = inner[key.len()..].trim_start();
+        if let Some(after) = inner.strip_prefix(key) {
+            let after = after.trim_start();
             if after.starts_with(']') || after.starts_with('=') || after.starts_with('.') {
                 let start = offset + indent + (trimmed.len() - inner.len());
                 found = Some(start..start + key.len());

@@ -398,7 +398,10 @@ via = ["a", "t", "x"]
     }
     for d in &e {
         assert!(d.span.end <= text.len());
-        assert!(&text[d.span.clone()] != "", "{d:?} underlines something");
+        assert!(
+            !text[d.span.clone()].is_empty(),
+            "{d:?} underlines something"
+        );
     }
 }
 
