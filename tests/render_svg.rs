@@ -258,7 +258,7 @@ fn no_two_texts_overlap_and_all_stay_on_the_page() {
         let scene = layout(&spec, &Style::default());
         let boxes = scene.text_boxes();
         let texts: Vec<_> = scene.texts().collect();
-        for (i, j) in scene.overlapping_texts() {
+        if let Some(&(i, j)) = scene.overlapping_texts().first() {
             panic!("{name}: {:?} overlaps {:?}", texts[i].lines, texts[j].lines);
         }
         for (b, t) in boxes.iter().zip(&texts) {

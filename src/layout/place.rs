@@ -78,10 +78,8 @@ impl Placer {
     ) -> Option<&'a Candidate> {
         let mut best: Option<(f64, &Candidate)> = None;
         for c in candidates {
-            if let Some((cost, _)) = best {
-                if c.cost >= cost {
-                    break; // sorted by cost: nothing later can beat it
-                }
+            if best.is_some_and(|(cost, _)| c.cost >= cost) {
+                break; // sorted by cost: nothing later can beat it
             }
             let r = c.bbox();
             if !self.fits(&r) {

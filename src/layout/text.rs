@@ -19,6 +19,8 @@ pub const LINE_HEIGHT: f64 = 1.15;
 const WIDTH_MARGIN: f64 = 1.03;
 
 /// Advance width of `c` in em.
+// 0.318 is a glyph width, not an approximation of 1/π.
+#[allow(clippy::approx_constant)]
 pub fn char_em(c: char) -> f64 {
     match c {
         ' ' => 0.318,
@@ -219,14 +221,11 @@ pub fn line_breaks(label: &str, size_pt: f64) -> Vec<Vec<String>> {
         }
     }
     let one = width_mm(label, size_pt);
-    if let Some((w2, l2)) = best2 {
-        if w2 < one * 0.9 {
-            options.push(l2);
-            if let Some((w3, l3)) = best3 {
-                if w3 < w2 * 0.9 {
-                    options.push(l3);
-                }
-            }
+    // A break is only worth offering when it makes the block clearly narrower.
+    if let Some((w2, l2)) = best2.filter(|(w2, _)| *w2 < one * 0.9) {
+        options.push(l2);
+        if let Some((_, l3)) = best3.filter(|(w3, _)| *w3 < w2 * 0.9) {
+            options.push(l3);
         }
     }
     options
