@@ -42,7 +42,10 @@ pub fn parse(text: &str) -> Result<Parsed, Vec<Diagnostic>> {
 
     let raw = document::read(&root, &mut errors);
     let points = network::unique_points(raw.points, &mut errors);
-    if !points.iter().any(|p| p.kind == Kind::Minimum) {
+    let states_broken = errors
+        .iter()
+        .any(|d| Some(&d.span) == raw.states_span.as_ref());
+    if !points.iter().any(|p| p.kind == Kind::Minimum) && !states_broken {
         let span = raw.states_span.clone().unwrap_or(fields::file_start());
         errors.push(
             Diagnostic::error(span, "the profile has no states (minima)")

@@ -71,6 +71,14 @@ pub(crate) fn resolve_paths(
     let mut resolved = Vec::new();
     for (n, path) in raw.iter().enumerate() {
         let name = match &path.name {
+            Some(Located { text, span }) if text.trim().is_empty() => {
+                errors.push(
+                    Diagnostic::error(span.clone(), "a path name cannot be empty")
+                        .with_help("give it a short name, e.g. name = \"stepwise\", or delete the line to get \"path N\""),
+                );
+                all_ok = false;
+                format!("path {}", n + 1)
+            }
             Some(Located { text, span }) => {
                 if let Some(first) = names.get(text) {
                     errors.push(

@@ -65,7 +65,9 @@ fn describe(text: &str, root: &DeTable<'_>, message: &str, span: Range<usize>) -
             "end it with the same quote it starts with on the same line, e.g. label = \"ion pair\"",
         );
     }
-    let help = if message.contains("string") || message.contains("invalid") {
+    let help = if message.contains("expected `=`") {
+        "write each entry as key = value, e.g. start = 0.0"
+    } else if message.contains("string") || message.contains("invalid") {
         "text values need double quotes, e.g. label = \"ion pair\"; each line is key = value"
     } else {
         "each line is key = value, a [table] header, or a [[path]] header; \
