@@ -328,12 +328,19 @@ pub fn selectivity(model: &Model, start: Option<&[PointId]>) -> Option<Selectivi
             fmt(ddg)
         ),
         Regime::Intermediate => format!(
-            "interconversion (highest TS {} {u}) and product formation (lowest TS {} {u}) \
-             compete within the {} {u} threshold: fractions from the exact first-order \
-             partition of the network, product formation taken as irreversible",
+            "neither limit holds: interconverting the reacting states needs a TS at {} {u}, \
+             not {} {u} (a rate factor of 100) below the lowest product-forming TS ({} {u}), \
+             and not every state forms its products that far below its way to the others; \
+             fractions from the exact first-order partition of the network from {}, \
+             product formation taken as irreversible",
             fmt(interconversion),
+            fmt(threshold),
             fmt(lowest_channel),
-            fmt(threshold)
+            start
+                .iter()
+                .map(|&s| name(s))
+                .collect::<Vec<_>>()
+                .join(", "),
         ),
     };
     Some(Selectivity {

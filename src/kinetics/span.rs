@@ -39,6 +39,8 @@ pub struct Determining {
     pub tof_approx: f64,
 }
 
+// Index loops mirror the Σᵢⱼ of the published formula.
+#[allow(clippy::needless_range_loop)]
 /// Applies the energetic span model to a cycle of n intermediates and n TSs
 /// (energies in `unit`, any common reference) with reaction free energy `dgr`.
 /// Returns `None` if the two lists differ in length or are empty.

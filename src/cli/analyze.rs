@@ -1,0 +1,128 @@
+//! `eyrie analyze`: rate constants of every step and the apparent barrier of
+//! every path, as a table or as JSON.
+
+use super::error::CliError;
+use super::files;
+use eyrie::format;
+use eyrie::kinetics;
+use eyrie::report::AnalysisReport;
+use eyrie::units::Temperature;
+use std::path::Path;
+
+/// Runs the analysis and prints it.
+pub fn run(path: &Path, temperature: Option<Temperature>, json: bool) -> Result<(), CliError> {
+    let (parsed, warnings) = files::load(path)?;
+    eprint!("{warnings}");
+    let mut model = parsed.model;
+    if let Some(t) = temperature {
+        model = model.with_temperature(t);
+    }
+    let analysis = kinetics::analyze(&model);
+    let report = AnalysisReport::new(&model, &analysis);
+    if json {
+        let text = serde_json::to_string_pretty(&report).expect("report is plain data");
+        println!("{text}");
+    } else {
+        print!("{}", table(&report, model.unit().display_decimals()));
+    }
+    Ok(())
+}
+
+/// The human-readable report.
+fn table(r: &AnalysisReport, decimals: usize) -> String {
+    let e = |v: f64| format::energy(v, decimals, false);
+    let mut out = String::new();
+    if let Some(title) = &r.title {
+        out.push_str(&format!("{title}\n"));
+    }
+    let t = Temperature::kelvin(r.temperature_k).expect("validated temperature");
+    let reference = match &r.zero {
+        Some(z) => format!("relative to {z}"),
+        None => "as written".to_string(),
+    };
+    out.push_str(&format!(
+        "T = {t}; energies in {} {reference}; Eyring, κ = 1\n\n",
+        r.unit
+    ));
+
+    let names: Vec<String> = r
+        .steps
+        .iter()
+        .map(|s| match &s.ts {
+            Some(ts) => format!("{} → {} via {ts}", s.from, s.to),
+            None => format!("{} → {} (no barrier)", s.from, s.to),
+        })
+        .collect();
+    let width = names
+        .iter()
+        .map(|n| n.chars().count())
+        .max()
+        .unwrap_or(4)
+        .max(4);
+    out.push_str(&format!(
+        "{:<width$}  {:>8}  {:>8}  {:>10}  {:>10}  {:>10}  {:>10}\n",
+        "step", "ΔG‡ fwd", "ΔG‡ rev", "k fwd/s⁻¹", "k rev/s⁻¹", "t½ fwd", "t½ rev"
+    ));
+    for (name, s) in names.iter().zip(&r.steps) {
+        out.push_str(&format!(
+            "{:<width$}  {:>8}  {:>8}  {:>10}  {:>10}  {:>10}  {:>10}\n",
+            name,
+            e(s.barrier_forward),
+            e(s.barrier_reverse),
+            format::scientific(s.k_forward),
+            format::scientific(s.k_reverse),
+            format::duration(s.half_life_forward_s),
+            format::duration(s.half_life_reverse_s),
+        ));
+    }
+
+    out.push('\n');
+    let width = r
+        .paths
+        .iter()
+        .map(|p| p.name.chars().count())
+        .max()
+        .unwrap_or(4)
+        .max(4);
+    out.push_str(&format!(
+        "{:<width$}  {:>8}  {:<30}  {:>10}  {:>10}\n",
+        "path", "barrier", "set by", "k/s⁻¹", "t½"
+    ));
+    for p in &r.paths {
+        let set_by = match &p.determining_ts {
+            Some(ts) => format!("{} → {ts}", p.determining_state),
+            None => format!("{} (no TS on path)", p.determining_state),
+        };
+        out.push_str(&format!(
+            "{:<width$}  {:>8}  {:<30}  {:>10}  {:>10}\n",
+            p.name,
+            e(p.apparent_barrier),
+            set_by,
+            format::scientific(p.k_apparent),
+            format::duration(p.half_life_s),
+        ));
+    }
+    if let Some(sel) = &r.selectivity {
+        out.push('\n');
+        out.push_str(&format!(
+            "selectivity from {}: {}\n",
+            sel.start.join(" + "),
+            sel.regime
+        ));
+        let mut products: Vec<(&String, &f64)> = sel.products.iter().collect();
+        products.sort_by(|a, b| b.1.total_cmp(a.1));
+        let shares: Vec<String> = products
+            .iter()
+            .map(|(id, f)| format!("{id} {:.1} %", *f * 100.0))
+            .collect();
+        out.push_str(&format!("  products: {}\n", shares.join(", ")));
+        let what = if sel.regime == "intermediate" {
+            "effective ΔΔG‡ (RT·ln of the ratio)"
+        } else {
+            "deciding ΔΔG‡"
+        };
+        out.push_str(&format!("  {what}: {} {}\n", e(sel.ddg), r.unit));
+        out.push_str(&format!("  why: {}\n", sel.reason));
+    }
+    out
+}

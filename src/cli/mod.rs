@@ -1,0 +1,154 @@
+//! Command-line interface: argument definitions, dispatch to one module per
+//! command, and the single place where errors are printed and turned into
+//! exit codes.
+
+mod analyze;
+mod convert;
+mod error;
+mod files;
+mod render;
+
+use clap::{Parser, Subcommand};
+use error::{CliError, Exit};
+use eyrie::units::Temperature;
+use std::path::PathBuf;
+use std::process::ExitCode;
+
+const SHORT_USAGE: &str = "\
+eyrie — kinetics and reaction-coordinate diagrams from a profile file
+
+  eyrie analyze PROFILE.toml          rate constants, half-lives, rate-limiting states
+  eyrie render PROFILE.toml -o fig.svg   the energy diagram
+  eyrie convert 95:5                  ratio ↔ ee ↔ ΔΔG‡ at 25 °C
+
+More: eyrie --help, eyrie help analyze, docs/profile-format.md";
+
+/// Kinetics and reaction-coordinate diagrams from a declarative profile of
+/// free energies.
+#[derive(Debug, Parser)]
+#[command(name = "eyrie", version, about, long_about = None)]
+#[command(
+    after_help = "Exit codes: 0 success; 1 a check disagreed with a measurement; \
+2 invalid input file or usage; 3 a file could not be read or written."
+)]
+struct Cli {
+    #[command(subcommand)]
+    command: Command,
+}
+
+#[derive(Debug, Subcommand)]
+enum Command {
+    /// Eyring rate constants and half-lives of every step in both directions,
+    /// and the apparent barrier of every path with the states that set it.
+    Analyze {
+        /// The profile file (TOML; see docs/profile-format.md).
+        profile: PathBuf,
+        /// Print machine-readable JSON instead of the table (fields in docs/json.md).
+        #[arg(long)]
+        json: bool,
+        #[command(flatten)]
+        conditions: Conditions,
+    },
+    /// Draw the reaction-coordinate (free-energy) diagram of a profile.
+    Render {
+        /// The profile file (TOML; see docs/profile-format.md).
+        profile: PathBuf,
+        /// Where to write the figure (SVG). Default: the profile's name with .svg,
+        /// in the current folder. The file is replaced only once the figure is complete.
+        #[arg(short, long, value_name = "FILE")]
+        output: Option<PathBuf>,
+        #[command(flatten)]
+        conditions: Conditions,
+    },
+    /// Convert a selectivity between its three forms at one temperature: a
+    /// product ratio (95:5 or 19), an ee or de (90%ee, 80%de), or a free-energy
+    /// difference ΔΔG‡ (1.8 kcal/mol, 7 kJ/mol).
+    Convert {
+        /// The value to convert, e.g. 95:5, 4, 90%ee, 1.8 kcal/mol.
+        #[arg(allow_hyphen_values = true)]
+        value: String,
+        /// Print machine-readable JSON (ratio, ee_percent, ddg_kcal_mol, ddg_kj_mol,
+        /// temperature_k).
+        #[arg(long)]
+        json: bool,
+        /// Temperature of the conversion: "25 C", "-78 C", "298.15 K", or a number
+        /// in kelvin. Default 25 °C.
+        #[arg(long, short = 'T', value_name = "T", allow_hyphen_values = true,
+              value_parser = parse_temperature)]
+        temperature: Option<Temperature>,
+    },
+}
+
+/// Options that change the conditions every number is computed at.
+#[derive(Debug, clap::Args)]
+struct Conditions {
+    /// Reaction temperature, overriding the profile's: "25 C", "-78 C", "298.15 K",
+    /// or a number in kelvin.
+    #[arg(long, short = 'T', value_name = "T", allow_hyphen_values = true,
+          value_parser = parse_temperature)]
+    temperature: Option<Temperature>,
+}
+
+fn parse_temperature(text: &str) -> Result<Temperature, String> {
+    Temperature::parse(text).map_err(|e| e.to_string())
+}
+
+/// Parses the command line, runs the command, prints any error once, and
+/// returns the documented exit code.
+pub fn main() -> ExitCode {
+    if std::env::args_os().len() <= 1 {
+        eprintln!("{SHORT_USAGE}");
+        return ExitCode::from(Exit::Invalid as u8);
+    }
+    let cli = match Cli::try_parse() {
+        Ok(cli) => cli,
+        Err(e) => {
+            // clap prints help and version to stdout (exit 0) and usage errors to stderr (2).
+            let _ = e.print();
+            return ExitCode::from(if e.use_stderr() {
+                Exit::Invalid as u8
+            } else {
+                0
+            });
+        }
+    };
+    match run(cli) {
+        Ok(()) => ExitCode::from(Exit::Success as u8),
+        Err(e) => {
+            match &e {
+                CliError::Invalid { rendered } => eprint!("{rendered}"),
+                other => eprintln!("error: {other}"),
+            }
+            ExitCode::from(e.exit() as u8)
+        }
+    }
+}
+
+fn run(cli: Cli) -> Result<(), CliError> {
+    match cli.command {
+        Command::Analyze {
+            profile,
+            json,
+            conditions,
+        } => analyze::run(&profile, conditions.temperature, json),
+        Command::Render {
+            profile,
+            output,
+            conditions,
+        } => render::run(&profile, output, conditions.temperature),
+        Command::Convert {
+            value,
+            json,
+            temperature,
+        } => convert::run(&value, temperature, json),
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    #[test]
+    fn command_definitions_are_consistent() {
+        use clap::CommandFactory;
+        super::Cli::command().debug_assert();
+    }
+}
