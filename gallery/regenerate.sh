@@ -8,7 +8,10 @@ cd "$(dirname "$0")/.."
 cargo build --release --quiet
 for profile in profiles/*.toml; do
   name=$(basename "$profile" .toml)
-  target/release/eyrie render "$profile" -o "gallery/$name.svg"
+  extra=()
+  # Absolute hartree energies read best in kcal/mol.
+  [ "$name" = hartree-absolute ] && extra=(--unit kcal/mol)
+  target/release/eyrie render "$profile" -o "gallery/$name.svg" "${extra[@]}"
   if command -v rsvg-convert >/dev/null; then
     rsvg-convert --dpi-x 300 --dpi-y 300 "gallery/$name.svg" -o "gallery/$name.png"
   fi

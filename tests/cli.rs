@@ -343,3 +343,19 @@ fn convert_between_ratio_ee_and_ddg() {
         "the error shows the accepted forms"
     );
 }
+
+#[test]
+fn unit_option_reports_absolute_hartree_inputs_in_kcal() {
+    // closed form: unit conversion with 1 hartree = 2625.499639 kJ/mol (CODATA 2018)
+    // and 1 cal = 4.184 J; energies from profiles/hartree-absolute.toml.
+    let out = eyrie(
+        &["analyze", &repo("profiles/hartree-absolute.toml"), "--unit", "kcal/mol", "--json"],
+        &std::env::temp_dir(),
+    );
+    assert_eq!(out.status.code(), Some(0), "{}", text(&out.stderr));
+    let v: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
+    assert_eq!(v["unit"], "kcal/mol");
+    let want = (-842.284919 - -842.315604) * 2625.499639 / 4.184;
+    let got = v["steps"][0]["barrier_forward"].as_f64().unwrap();
+    assert!((got - want).abs() < 1e-6, "{got} vs {want}");
+}

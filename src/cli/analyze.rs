@@ -10,13 +10,10 @@ use eyrie::units::Temperature;
 use std::path::Path;
 
 /// Runs the analysis and prints it.
-pub fn run(path: &Path, temperature: Option<Temperature>, json: bool) -> Result<(), CliError> {
+pub fn run(path: &Path, conditions: &super::Conditions, json: bool) -> Result<(), CliError> {
     let (parsed, warnings) = files::load(path)?;
     eprint!("{warnings}");
-    let mut model = parsed.model;
-    if let Some(t) = temperature {
-        model = model.with_temperature(t);
-    }
+    let model = conditions.apply(parsed.model);
     let analysis = kinetics::analyze(&model);
     let report = AnalysisReport::new(&model, &analysis);
     if json {

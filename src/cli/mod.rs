@@ -10,7 +10,7 @@ mod render;
 
 use clap::{Parser, Subcommand};
 use error::{CliError, Exit};
-use eyrie::units::Temperature;
+use eyrie::units::{EnergyUnit, Temperature};
 use std::path::PathBuf;
 use std::process::ExitCode;
 
@@ -81,12 +81,34 @@ enum Command {
 
 /// Options that change the conditions every number is computed at.
 #[derive(Debug, clap::Args)]
-struct Conditions {
+pub(crate) struct Conditions {
     /// Reaction temperature, overriding the profile's: "25 C", "-78 C", "298.15 K",
     /// or a number in kelvin.
     #[arg(long, short = 'T', value_name = "T", allow_hyphen_values = true,
           value_parser = parse_temperature)]
     temperature: Option<Temperature>,
+    /// Report and draw energies in this unit instead of the profile's: kcal/mol,
+    /// kJ/mol, eV or hartree (e.g. absolute hartree inputs shown in kcal/mol).
+    #[arg(long, value_name = "UNIT", value_parser = parse_unit)]
+    unit: Option<EnergyUnit>,
+}
+
+impl Conditions {
+    /// Applies the overrides to a freshly loaded model.
+    fn apply(&self, mut model: eyrie::model::Model) -> eyrie::model::Model {
+        if let Some(t) = self.temperature {
+            model = model.with_temperature(t);
+        }
+        if let Some(u) = self.unit {
+            model = model.with_unit(u);
+        }
+        model
+    }
+}
+
+fn parse_unit(text: &str) -> Result<EnergyUnit, String> {
+    EnergyUnit::parse(text)
+        .ok_or_else(|| format!("unknown unit '{text}' (use kcal/mol, kJ/mol, eV or hartree)"))
 }
 
 fn parse_temperature(text: &str) -> Result<Temperature, String> {
@@ -130,12 +152,12 @@ fn run(cli: Cli) -> Result<(), CliError> {
             profile,
             json,
             conditions,
-        } => analyze::run(&profile, conditions.temperature, json),
+        } => analyze::run(&profile, &conditions, json),
         Command::Render {
             profile,
             output,
             conditions,
-        } => render::run(&profile, output, conditions.temperature),
+        } => render::run(&profile, output, &conditions),
         Command::Convert {
             value,
             json,

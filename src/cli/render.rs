@@ -2,7 +2,6 @@
 
 use super::error::CliError;
 use super::files;
-use eyrie::units::Temperature;
 use std::path::{Path, PathBuf};
 
 /// Renders `path` to `output` (default: the input's stem with `.svg`, in the
@@ -10,7 +9,7 @@ use std::path::{Path, PathBuf};
 pub fn run(
     path: &Path,
     output: Option<PathBuf>,
-    temperature: Option<Temperature>,
+    conditions: &super::Conditions,
 ) -> Result<(), CliError> {
     let output = output.unwrap_or_else(|| default_output(path));
     let extension = output
@@ -25,10 +24,7 @@ pub fn run(
     }
     let (parsed, warnings) = files::load(path)?;
     eprint!("{warnings}");
-    let mut model = parsed.model;
-    if let Some(t) = temperature {
-        model = model.with_temperature(t);
-    }
+    let model = conditions.apply(parsed.model);
     let spec = eyrie::figure::diagram_spec(&model);
     let scene = eyrie::layout::layout(&spec, &eyrie::layout::Style::default());
     let svg = eyrie::render::to_svg(&scene);

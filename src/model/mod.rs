@@ -83,6 +83,15 @@ impl Model {
         self.temperature = t;
         self
     }
+    /// The same model with every energy converted to `unit` (the `--unit`
+    /// option: e.g. absolute hartree inputs reported in kcal/mol).
+    pub fn with_unit(mut self, unit: EnergyUnit) -> Model {
+        for p in &mut self.points {
+            p.g = self.unit.convert(p.g, unit);
+        }
+        self.unit = unit;
+        self
+    }
     /// The unit energies are written and reported in.
     pub fn unit(&self) -> EnergyUnit {
         self.unit
