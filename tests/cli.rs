@@ -349,7 +349,13 @@ fn unit_option_reports_absolute_hartree_inputs_in_kcal() {
     // closed form: unit conversion with 1 hartree = 2625.499639 kJ/mol (CODATA 2018)
     // and 1 cal = 4.184 J; energies from profiles/hartree-absolute.toml.
     let out = eyrie(
-        &["analyze", &repo("profiles/hartree-absolute.toml"), "--unit", "kcal/mol", "--json"],
+        &[
+            "analyze",
+            &repo("profiles/hartree-absolute.toml"),
+            "--unit",
+            "kcal/mol",
+            "--json",
+        ],
         &std::env::temp_dir(),
     );
     assert_eq!(out.status.code(), Some(0), "{}", text(&out.stderr));
@@ -358,4 +364,40 @@ fn unit_option_reports_absolute_hartree_inputs_in_kcal() {
     let want = (-842.284919 - -842.315604) * 2625.499639 / 4.184;
     let got = v["steps"][0]["barrier_forward"].as_f64().unwrap();
     assert!((got - want).abs() < 1e-6, "{got} vs {want}");
+}
+
+#[test]
+fn start_key_decides_where_the_material_starts() {
+    // Slow rotation (24 kcal/mol) against cyclisations at 18–19 kcal/mol: a kinetic
+    // quench, so each rotamer gives its own product (Seeman, Chem. Rev. 1983, slow limit).
+    let dir = scratch();
+    let body = r#"unit = "kcal/mol"
+[states]
+rot-e = 0.0
+rot-z = 0.9
+pa = -8.2
+pb = -7.4
+[ts]
+ts-rot = 24.0
+ts-a = 19.4
+ts-b = 18.1
+[[path]]
+via = ["rot-e", "ts-rot", "rot-z"]
+[[path]]
+via = ["rot-e", "ts-a", "pa"]
+[[path]]
+via = ["rot-z", "ts-b", "pb"]
+"#;
+    for (start, major) in [("", "pa"), ("start = \"rot-z\"\n", "pb")] {
+        let p = write(dir.path(), "q.toml", &format!("{start}{body}"));
+        let out = eyrie(&["analyze", p.to_str().unwrap(), "--json"], dir.path());
+        assert_eq!(out.status.code(), Some(0), "{}", text(&out.stderr));
+        let v: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
+        let sel = &v["selectivity"];
+        assert_eq!(sel["regime"], "kinetic-quench");
+        assert!(
+            (sel["products"][major].as_f64().unwrap() - 1.0).abs() < 1e-12,
+            "{sel}"
+        );
+    }
 }

@@ -99,6 +99,43 @@ fn table(r: &AnalysisReport, decimals: usize) -> String {
             format::duration(p.half_life_s),
         ));
     }
+    for c in &r.cycles {
+        out.push('\n');
+        out.push_str(&format!(
+            "cycle {}: ΔGr = {} {}, TOF = {} s⁻¹ (energetic span model)\n",
+            c.name,
+            e(c.dgr),
+            r.unit,
+            format::scientific(c.tof)
+        ));
+        match (&c.tdi, &c.tdts, c.span) {
+            (Some(tdi), Some(tdts), Some(span)) => {
+                let order = if c.tdts_before_tdi == Some(true) {
+                    " (TDTS before TDI: δE includes ΔGr)"
+                } else {
+                    ""
+                };
+                out.push_str(&format!(
+                    "  TDI {tdi}, TDTS {tdts}: δE = {} {}{order}\n",
+                    e(span),
+                    r.unit
+                ));
+            }
+            _ => out
+                .push_str("  ΔGr > 0: at standard-state concentrations the cycle runs backwards\n"),
+        }
+        let mut control: Vec<(&String, &f64)> = c.tof_control.iter().collect();
+        control.sort_by(|a, b| b.1.total_cmp(a.1).then(a.0.cmp(b.0)));
+        let shown: Vec<String> = control
+            .iter()
+            .filter(|(_, x)| **x >= 0.01)
+            .map(|(id, x)| format!("{id} {:.2}", x))
+            .collect();
+        out.push_str(&format!(
+            "  degree of TOF control (≥ 0.01): {}\n",
+            shown.join(", ")
+        ));
+    }
     if let Some(sel) = &r.selectivity {
         out.push('\n');
         out.push_str(&format!(

@@ -1,5 +1,6 @@
 //! Pure kinetics over a validated model: never prints, never writes files.
 //!
+//! - [`cycle`]: a `cycle = true` path as intermediates and TSs for the energetic span model.
 //! - [`corrections`]: tunnelling (Wigner, Bell), standard state, pseudo-first order.
 //! - [`eyring`]: rate constants and half-lives from barriers, in log space.
 //! - [`analysis`]: every step's barriers and rate constants in both
@@ -12,6 +13,7 @@
 
 pub mod analysis;
 pub mod corrections;
+pub mod cycle;
 pub mod eyring;
 pub mod partition;
 pub mod regime;

@@ -406,16 +406,20 @@ mod tests {
                 Path {
                     name: "ab".into(),
                     via: vec![0, 4, 1],
+                    cycle: false,
                 },
                 Path {
                     name: "ac".into(),
                     via: vec![0, 5, 2],
+                    cycle: false,
                 },
                 Path {
                     name: "bd".into(),
                     via: vec![1, 6, 3],
+                    cycle: false,
                 },
             ],
+            start: vec![],
         }
     }
 

@@ -55,6 +55,9 @@ pub struct Path {
     pub name: String,
     /// The points in order: minimum, (TS,) minimum, …
     pub via: Vec<PointId>,
+    /// One turnover of a catalytic cycle (`cycle = true`): the last state is the
+    /// regenerated catalyst with the product released.
+    pub cycle: bool,
 }
 
 /// A validated profile.
@@ -67,6 +70,7 @@ pub struct Model {
     pub(crate) points: Vec<Point>,
     pub(crate) steps: Vec<Step>,
     pub(crate) paths: Vec<Path>,
+    pub(crate) start: Vec<PointId>,
 }
 
 impl Model {
@@ -115,6 +119,10 @@ impl Model {
     /// Elementary steps, deduplicated, in order of first appearance.
     pub fn steps(&self) -> &[Step] {
         &self.steps
+    }
+    /// The state(s) the material starts in, when the file names them (`start`).
+    pub fn start(&self) -> &[PointId] {
+        &self.start
     }
     /// Paths in file order.
     pub fn paths(&self) -> &[Path] {

@@ -17,18 +17,19 @@ use crate::units::{EnergyUnit, Temperature};
 /// reference temperature of tabulated free energies.
 pub const DEFAULT_TEMPERATURE_K: f64 = 298.15;
 
-const TOP_KEYS: [&str; 7] = [
+const TOP_KEYS: [&str; 8] = [
     "title",
     "temperature",
     "unit",
     "zero",
+    "start",
     "states",
     "ts",
     "path",
 ];
 const STATE_KEYS: [&str; 3] = ["g", "label", "product"];
 const TS_KEYS: [&str; 2] = ["g", "label"];
-const PATH_KEYS: [&str; 2] = ["name", "via"];
+const PATH_KEYS: [&str; 3] = ["name", "via", "cycle"];
 const NOT_YET_ENERGY: &str = "give the free energy as g, e.g. { g = 17.9 }; \
      enthalpy/entropy (h, s) and electronic energies (e) come in a later version";
 
@@ -59,6 +60,8 @@ pub(crate) struct RawPath {
     pub name: Option<Located>,
     /// `None` when `via` is missing or unreadable (already reported).
     pub via: Option<Vec<Located>>,
+    /// `cycle = true`: one turnover of a catalytic cycle, with where it is written.
+    pub cycle: Option<(bool, Range<usize>)>,
 }
 
 /// The whole file, read but not yet cross-checked.
@@ -68,6 +71,8 @@ pub(crate) struct RawProfile {
     pub temperature: Option<Temperature>,
     pub unit: Option<(EnergyUnit, Range<usize>)>,
     pub zero: Option<Located>,
+    /// `start`: the state(s) the material starts in, for selectivity.
+    pub start: Option<Vec<Located>>,
     /// Where `[states]` is written, for file-wide warnings.
     pub states_span: Option<Range<usize>>,
     pub points: Vec<RawPoint>,
@@ -98,6 +103,7 @@ pub(crate) fn read(root: &DeTable<'_>, errors: &mut Vec<Diagnostic>) -> RawProfi
                         span: value.span(),
                     })
             }
+            "start" => raw.start = read_id_list(value, "start", "start = \"rot-a\"", errors),
             "states" => {
                 raw.states_span = Some(value.span());
                 read_points(value, Kind::Minimum, &mut raw.points, errors);
@@ -336,6 +342,7 @@ fn read_path(
     let mut path = RawPath {
         name: None,
         via: None,
+        cycle: None,
     };
     let mut has_via = false;
     for (k, v) in fields::entries(table) {
@@ -353,11 +360,9 @@ fn read_path(
                 has_via = true;
                 path.via = read_via(v, errors);
             }
-            "cycle" => errors.push(fields::reserved(
-                k,
-                "remove it; for now write one turnover as a path from the catalyst to the \
-                 regenerated catalyst (a separate state with the product's energy)",
-            )),
+            "cycle" => {
+                path.cycle = fields::boolean(v, "cycle", errors).map(|b| (b, v.span()));
+            }
             _ => errors.push(fields::unknown_key(
                 k,
                 &format!("in path {number}"),
@@ -430,4 +435,49 @@ fn read_via(value: &Value<'_>, errors: &mut Vec<Diagnostic>) -> Option<Vec<Locat
         return None;
     }
     ok.then_some(ids)
+}
+
+/// Reads one id or a list of ids (`start = "a"` or `start = ["a", "b"]`).
+fn read_id_list(
+    value: &Value<'_>,
+    what: &str,
+    example: &str,
+    errors: &mut Vec<Diagnostic>,
+) -> Option<Vec<Located>> {
+    let one = |item: &Value<'_>, errors: &mut Vec<Diagnostic>| match item.get_ref() {
+        DeValue::String(s) => Some(Located {
+            text: s.to_string(),
+            span: item.span(),
+        }),
+        other => {
+            errors.push(
+                Diagnostic::error(
+                    item.span(),
+                    format!(
+                        "{what} must name states by their ids in quotes, found {}",
+                        fields::kind_of(other)
+                    ),
+                )
+                .with_help(format!(
+                    "e.g. {example}, or a list: {what} = [\"rot-a\", \"rot-b\"]"
+                )),
+            );
+            None
+        }
+    };
+    match value.get_ref() {
+        DeValue::Array(items) => {
+            let ids: Vec<Option<Located>> = items.iter().map(|i| one(i, errors)).collect();
+            if ids.is_empty() {
+                errors.push(
+                    Diagnostic::error(value.span(), format!("the {what} list is empty")).with_help(
+                        format!("name at least one state, e.g. {example}, or delete the line"),
+                    ),
+                );
+                return None;
+            }
+            ids.into_iter().collect()
+        }
+        _ => one(value, errors).map(|l| vec![l]),
+    }
 }

@@ -60,6 +60,7 @@ pub fn parse(text: &str) -> Result<Parsed, Vec<Diagnostic>> {
     }
     let (paths, paths_ok) = network::resolve_paths(&points, &raw.paths, &mut errors);
     let zero = energy::resolve_zero(raw.zero.as_ref(), &points, &mut errors);
+    let start = network::resolve_start(raw.start.as_deref().unwrap_or(&[]), &points, &mut errors);
 
     let steps = network::derive_steps(&paths, &points);
     let products = network::products(&paths, &points);
@@ -140,8 +141,10 @@ pub fn parse(text: &str) -> Result<Parsed, Vec<Diagnostic>> {
             .map(|p| Path {
                 name: p.name,
                 via: p.via,
+                cycle: p.cycle,
             })
             .collect(),
+        start,
     };
     Ok(Parsed {
         model,

@@ -15,6 +15,7 @@ use crate::profile::suggest;
 pub(crate) struct ResolvedPath {
     pub name: String,
     pub via: Vec<PointId>,
+    pub cycle: bool,
 }
 
 /// Orders the points as the model does (states, then transition states, each
@@ -109,7 +110,25 @@ pub(crate) fn resolve_paths(
             all_ok = false;
             continue;
         }
-        resolved.push(ResolvedPath { name, via: ids });
+        let cycle = match path.cycle {
+            Some((true, ref span)) => {
+                if ids.first() == ids.last() {
+                    errors.push(
+                        Diagnostic::error(span.clone(), format!("cycle '{name}' starts and ends at the same state"))
+                            .with_help("end the turnover at the regenerated catalyst with the product released: a state of its own, \
+                                        lower than the first by the reaction free energy, e.g. cat-p = -12.0"),
+                    );
+                    all_ok = false;
+                }
+                true
+            }
+            _ => false,
+        };
+        resolved.push(ResolvedPath {
+            name,
+            via: ids,
+            cycle,
+        });
     }
     (resolved, all_ok)
 }
@@ -290,4 +309,27 @@ pub(crate) fn products(paths: &[ResolvedPath], points: &[RawPoint]) -> Vec<bool>
                 .unwrap_or(ends.contains(&i) && !starts.contains(&i)),
         })
         .collect()
+}
+
+/// Resolves `start` ids; each must be a state (a minimum).
+pub(crate) fn resolve_start(
+    ids: &[Located],
+    points: &[RawPoint],
+    errors: &mut Vec<Diagnostic>,
+) -> Vec<PointId> {
+    let mut out = Vec::new();
+    for item in ids {
+        match points.iter().position(|p| p.id == item.text) {
+            Some(i) if points[i].kind == Kind::Minimum => out.push(i),
+            Some(_) => errors.push(
+                Diagnostic::error(
+                    item.span.clone(),
+                    format!("start names '{}', a transition state", item.text),
+                )
+                .with_help("material starts in minima: name states from [states]"),
+            ),
+            None => errors.push(unknown_id(item, points)),
+        }
+    }
+    out
 }
