@@ -27,6 +27,31 @@ pub struct AnalysisReport {
     pub paths: Vec<PathReport>,
     /// Which barriers decide the product ratio; null with fewer than two products.
     pub selectivity: Option<SelectivityReport>,
+    /// The energetic span analysis of every `cycle = true` path.
+    pub cycles: Vec<CycleReport>,
+}
+
+/// One catalytic cycle by the energetic span model.
+#[derive(Debug, Clone, Serialize)]
+pub struct CycleReport {
+    /// Path name.
+    pub name: String,
+    /// TOF-determining intermediate (null when the cycle runs backwards).
+    pub tdi: Option<String>,
+    /// TOF-determining TS ("a→b" for a barrierless step; null when backwards).
+    pub tdts: Option<String>,
+    /// Energetic span δE, in `unit` (null when backwards).
+    pub span: Option<f64>,
+    /// Whether the TDTS comes before the TDI in the turnover (δE then includes ΔGr).
+    pub tdts_before_tdi: Option<bool>,
+    /// Turnover frequency, s⁻¹ (negative: the cycle runs backwards).
+    pub tof: f64,
+    /// (kB·T/h)·e^(−δE/RT), s⁻¹, for orientation only.
+    pub tof_approx: Option<f64>,
+    /// Reaction free energy of one turnover, in `unit`.
+    pub dgr: f64,
+    /// Degree of TOF control of every intermediate and TS.
+    pub tof_control: std::collections::BTreeMap<String, f64>,
 }
 
 /// The Curtin–Hammett regime analysis.
@@ -153,8 +178,9 @@ impl AnalysisReport {
                 }
             })
             .collect();
+        let start = (!model.start().is_empty()).then(|| model.start());
         let selectivity =
-            crate::kinetics::regime::selectivity(model, None).map(|s| SelectivityReport {
+            crate::kinetics::regime::selectivity(model, start).map(|s| SelectivityReport {
                 regime: s.regime.name(),
                 products: s.products.iter().map(|&(p, f)| (id(p), f)).collect(),
                 ddg: s.ddg,
@@ -172,6 +198,35 @@ impl AnalysisReport {
             steps,
             paths,
             selectivity,
+            cycles: (0..model.paths().len())
+                .filter_map(|p| crate::kinetics::cycle::analyze_cycle(model, p))
+                .map(|c| CycleReport::new(model, &c))
+                .collect(),
+        }
+    }
+}
+
+impl CycleReport {
+    fn new(model: &Model, c: &crate::kinetics::cycle::CycleAnalysis) -> CycleReport {
+        let id = |p: usize| model.point(p).id.clone();
+        let det = c.span.determining.as_ref();
+        let mut tof_control = std::collections::BTreeMap::new();
+        for (i, &p) in c.intermediates.iter().enumerate() {
+            tof_control.insert(id(p), c.span.intermediate_control[i]);
+        }
+        for (i, t) in c.ts.iter().enumerate() {
+            tof_control.insert(t.name(model), c.span.ts_control[i]);
+        }
+        CycleReport {
+            name: model.paths()[c.path].name.clone(),
+            tdi: det.map(|d| id(c.intermediates[d.tdi])),
+            tdts: det.map(|d| c.ts[d.tdts].name(model)),
+            span: det.map(|d| d.span),
+            tdts_before_tdi: det.map(|d| d.tdts_before_tdi),
+            tof: c.span.tof,
+            tof_approx: det.map(|d| d.tof_approx),
+            dgr: c.dgr,
+            tof_control,
         }
     }
 }

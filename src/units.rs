@@ -128,6 +128,26 @@ impl EnergyUnit {
         self.from_j_per_mol(PLANCK * SPEED_OF_LIGHT * AVOGADRO * 100.0)
     }
 
+    /// The unit entropies are written in alongside this energy unit:
+    /// cal/(mol·K) with kcal/mol, J/(mol·K) with kJ/mol (the usual tabulation),
+    /// eV/K and hartree/K otherwise.
+    pub fn entropy_name(self) -> &'static str {
+        match self {
+            EnergyUnit::KcalPerMol => "cal/(mol·K)",
+            EnergyUnit::KjPerMol => "J/(mol·K)",
+            EnergyUnit::Ev => "eV/K",
+            EnergyUnit::Hartree => "hartree/K",
+        }
+    }
+
+    /// Converts an entropy written in [`Self::entropy_name`] to this unit per kelvin.
+    pub fn entropy_per_kelvin(self, s: f64) -> f64 {
+        match self {
+            EnergyUnit::KcalPerMol | EnergyUnit::KjPerMol => s / 1000.0,
+            EnergyUnit::Ev | EnergyUnit::Hartree => s,
+        }
+    }
+
     /// Decimal places that show energies in this unit at the usual precision.
     pub fn display_decimals(self) -> usize {
         match self {

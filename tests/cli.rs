@@ -401,3 +401,71 @@ via = ["rot-z", "ts-b", "pb"]
         );
     }
 }
+
+#[test]
+fn sweep_finds_the_isoselective_temperature() {
+    // closed form: ΔΔG‡(T) = ΔΔH‡ − T·ΔΔS‡ = 0 at T = ΔΔH‡/ΔΔS‡; profiles/entropy-switch.toml
+    // has ΔΔH‡ = 14.1 − 12.0 = 2.1 kcal/mol, ΔΔS‡ = −7 − (−14) = 7 cal/(mol·K) → 300 K.
+    let out = eyrie(
+        &[
+            "sweep",
+            &repo("profiles/entropy-switch.toml"),
+            "--from",
+            "-78 C",
+            "--to",
+            "100 C",
+            "--json",
+        ],
+        &std::env::temp_dir(),
+    );
+    assert_eq!(out.status.code(), Some(0), "{}", text(&out.stderr));
+    let v: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
+    let iso = v["isoselective"].as_array().unwrap();
+    assert_eq!(iso.len(), 1);
+    assert!((iso[0]["temperature_k"].as_f64().unwrap() - 300.0).abs() < 1e-6);
+    let rows = v["rows"].as_array().unwrap();
+    assert_eq!(rows.len(), 9);
+    // Below 300 K the ring product wins, above it the open one.
+    assert!(rows[0]["products"]["ring"].as_f64().unwrap() > 0.5);
+    assert!(rows[8]["products"]["open"].as_f64().unwrap() > 0.5);
+
+    let out = eyrie(
+        &[
+            "sweep",
+            &repo("profiles/demo.toml"),
+            "--from",
+            "300",
+            "--to",
+            "400",
+            "--steps",
+            "1",
+        ],
+        &std::env::temp_dir(),
+    );
+    assert_eq!(out.status.code(), Some(2));
+}
+
+#[test]
+fn enthalpy_and_entropy_follow_the_temperature() {
+    // closed form: G = H − T·S; TS-ring barrier at 273.15 K = 12.0 + 273.15 × 0.014.
+    let out = eyrie(
+        &[
+            "analyze",
+            &repo("profiles/entropy-switch.toml"),
+            "-T",
+            "0 C",
+            "--json",
+        ],
+        &std::env::temp_dir(),
+    );
+    assert_eq!(out.status.code(), Some(0), "{}", text(&out.stderr));
+    let v: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
+    let step = v["steps"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .find(|s| s["ts"] == "ts-ring")
+        .unwrap();
+    let want = 12.0 + 273.15 * 0.014;
+    assert!((step["barrier_forward"].as_f64().unwrap() - want).abs() < 1e-9);
+}

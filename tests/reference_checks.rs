@@ -294,21 +294,21 @@ fn selectivity_conversions() {
     use eyrie::convert::{Conversion, Given};
     use eyrie::kinetics::selectivity::boltzmann_fractions;
     let kcal = EnergyUnit::KcalPerMol;
-    let skipped: BTreeSet<&str> = [
-        // Temperature dependence from ΔΔH‡/ΔΔS‡ comes with h/s energies (a later issue).
-        "isoselective-temperature",
-        "isoselective-ratio-195.15K",
-        "isoselective-ratio-298.15K",
-        "isoselective-ratio-373.15K",
-    ]
-    .into();
+    // ΔΔH‡ and ΔΔS‡ of the isoselective entries, as a profile with h and s: one
+    // reactant, two product-forming TSs (TS2 − TS1 = 1.5 kcal/mol, 5 cal/(mol·K)).
+    let iso = eyrie::profile::parse(
+        "unit = \"kcal/mol\"\nzero = \"a\"\n[states]\na = { h = 0.0, s = 0.0 }\n\
+         p1 = { h = -10.0, s = 0.0 }\np2 = { h = -9.0, s = 0.0 }\n[ts]\n\
+         ts1 = { h = 20.0, s = 0.0 }\nts2 = { h = 21.5, s = 5.0 }\n\
+         [[path]]\nvia = [\"a\", \"ts1\", \"p1\"]\n[[path]]\nvia = [\"a\", \"ts2\", \"p2\"]\n",
+    )
+    .expect("valid profile")
+    .model;
+    let (p1, p2) = (iso.find("p1").unwrap(), iso.find("p2").unwrap());
     let t298 = Temperature::kelvin(298.15).unwrap();
     let mut checked = 0;
     for c in load("selectivity.toml") {
         let id = c.id.as_str();
-        if skipped.contains(id) {
-            continue;
-        }
         let t = || {
             c.inputs
                 .get("temperature_k")
@@ -334,6 +334,20 @@ fn selectivity_conversions() {
             } else {
                 conv.ee_percent
             }
+        } else if id == "isoselective-temperature" {
+            use eyrie::kinetics::sweep::isoselective;
+            let (lo, hi) = (
+                Temperature::kelvin(150.0).unwrap(),
+                Temperature::kelvin(450.0).unwrap(),
+            );
+            let roots = isoselective(&iso, p1, p2, lo, hi, 31);
+            assert_eq!(roots.len(), 1, "{roots:?}");
+            roots[0]
+        } else if id.starts_with("isoselective-ratio-") {
+            use eyrie::kinetics::sweep::sweep;
+            let row = sweep(&iso, &[t()]).remove(0).unwrap();
+            let f = |p| row.products.iter().find(|(q, _)| *q == p).unwrap().1;
+            f(p1) / f(p2)
         } else if id.starts_with("ch-distribution-") {
             let tss = c.inputs["ts_g"].as_table().unwrap();
             let names: Vec<&String> = tss.keys().collect();
@@ -347,7 +361,7 @@ fn selectivity_conversions() {
         assert_close(&c, got);
         checked += 1;
     }
-    assert_eq!(checked, 46, "selectivity entries checked");
+    assert_eq!(checked, 50, "selectivity entries checked");
 }
 
 #[test]

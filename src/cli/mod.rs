@@ -7,6 +7,7 @@ mod convert;
 mod error;
 mod files;
 mod render;
+mod sweep;
 
 use clap::{Parser, Subcommand};
 use error::{CliError, Exit};
@@ -59,6 +60,28 @@ enum Command {
         output: Option<PathBuf>,
         #[command(flatten)]
         conditions: Conditions,
+    },
+    /// Product distribution across a temperature range, and the isoselective
+    /// temperature where the two main products form equally fast. Energies given
+    /// as h and s change with temperature; g values do not.
+    Sweep {
+        /// The profile file (TOML; see docs/profile-format.md).
+        profile: PathBuf,
+        /// Lowest temperature: "-78 C", "195.15 K", or a number in kelvin.
+        #[arg(long, value_name = "T", allow_hyphen_values = true,
+              value_parser = parse_temperature)]
+        from: Temperature,
+        /// Highest temperature, in the same forms.
+        #[arg(long, value_name = "T", allow_hyphen_values = true,
+              value_parser = parse_temperature)]
+        to: Temperature,
+        /// Number of temperatures in the table, ends included.
+        #[arg(long, default_value_t = 9)]
+        steps: usize,
+        /// Print machine-readable JSON (rows[] with temperature_k, regime, products;
+        /// isoselective[] with products and temperature_k).
+        #[arg(long)]
+        json: bool,
     },
     /// Convert a selectivity between its three forms at one temperature: a
     /// product ratio (95:5 or 19), an ee or de (90%ee, 80%de), or a free-energy
@@ -158,6 +181,13 @@ fn run(cli: Cli) -> Result<(), CliError> {
             output,
             conditions,
         } => render::run(&profile, output, &conditions),
+        Command::Sweep {
+            profile,
+            from,
+            to,
+            steps,
+            json,
+        } => sweep::run(&profile, from, to, steps, json),
         Command::Convert {
             value,
             json,

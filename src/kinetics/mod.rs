@@ -9,6 +9,7 @@
 //! - [`regime`]: Curtin–Hammett, kinetic-quench or intermediate, and the product fractions.
 //! - [`selectivity`]: ratio ↔ ee ↔ ΔΔG‡ and Curtin–Hammett Boltzmann weights.
 //! - [`span`]: the energetic span model of a catalytic cycle.
+//! - [`sweep`]: selectivity across temperatures; the isoselective temperature.
 //! - [`winstein_holness`]: exact solution of A ⇌ B, A → C, B → D.
 
 pub mod analysis;
@@ -19,6 +20,7 @@ pub mod partition;
 pub mod regime;
 pub mod selectivity;
 pub mod span;
+pub mod sweep;
 pub mod winstein_holness;
 
 pub use analysis::{Analysis, PathBarrier, StepKinetics, analyze};

@@ -420,6 +420,7 @@ mod tests {
                 },
             ],
             start: vec![],
+            thermo: vec![],
         }
     }
 

@@ -60,6 +60,31 @@ pub struct Path {
     pub cycle: bool,
 }
 
+/// How a point's free energy follows from the file, before the `zero` shift.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub enum Thermo {
+    /// A free energy given directly (`g`), the same at every temperature.
+    Fixed(f64),
+    /// Enthalpy and entropy (`h`, `s`): G(T) = H − T·S. `s` is in the model's
+    /// energy unit per kelvin.
+    Enthalpy {
+        /// H in the model's unit.
+        h: f64,
+        /// S in the model's unit per K.
+        s: f64,
+    },
+}
+
+impl Thermo {
+    /// G at temperature `t` (K), unshifted.
+    pub fn g(self, t: f64) -> f64 {
+        match self {
+            Thermo::Fixed(g) => g,
+            Thermo::Enthalpy { h, s } => h - t * s,
+        }
+    }
+}
+
 /// A validated profile.
 #[derive(Debug, Clone, PartialEq)]
 pub struct Model {
@@ -71,6 +96,9 @@ pub struct Model {
     pub(crate) steps: Vec<Step>,
     pub(crate) paths: Vec<Path>,
     pub(crate) start: Vec<PointId>,
+    /// Raw energies per point, so G can follow the temperature; empty means the
+    /// points' `g` are fixed as given.
+    pub(crate) thermo: Vec<Thermo>,
 }
 
 impl Model {
@@ -85,16 +113,51 @@ impl Model {
     /// The same model at another temperature (the `--temperature` option).
     pub fn with_temperature(mut self, t: Temperature) -> Model {
         self.temperature = t;
+        self.refresh();
         self
     }
     /// The same model with every energy converted to `unit` (the `--unit`
     /// option: e.g. absolute hartree inputs reported in kcal/mol).
     pub fn with_unit(mut self, unit: EnergyUnit) -> Model {
+        let from = self.unit;
         for p in &mut self.points {
-            p.g = self.unit.convert(p.g, unit);
+            p.g = from.convert(p.g, unit);
+        }
+        for t in &mut self.thermo {
+            *t = match *t {
+                Thermo::Fixed(g) => Thermo::Fixed(from.convert(g, unit)),
+                Thermo::Enthalpy { h, s } => Thermo::Enthalpy {
+                    h: from.convert(h, unit),
+                    s: from.convert(s, unit),
+                },
+            };
         }
         self.unit = unit;
         self
+    }
+
+    /// Whether any energy depends on temperature (given as h and s).
+    pub fn temperature_dependent(&self) -> bool {
+        self.thermo
+            .iter()
+            .any(|t| matches!(t, Thermo::Enthalpy { .. }))
+    }
+
+    /// The raw energy description of each point (empty when built without one).
+    pub fn thermo(&self) -> &[Thermo] {
+        &self.thermo
+    }
+
+    /// Recomputes every G at the model's temperature, shifted to `zero`.
+    fn refresh(&mut self) {
+        if self.thermo.len() != self.points.len() {
+            return;
+        }
+        let t = self.temperature.k();
+        let offset = self.zero.map_or(0.0, |z| self.thermo[z].g(t));
+        for (p, th) in self.points.iter_mut().zip(&self.thermo) {
+            p.g = th.g(t) - offset;
+        }
     }
     /// The unit energies are written and reported in.
     pub fn unit(&self) -> EnergyUnit {

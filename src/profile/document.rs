@@ -27,11 +27,11 @@ const TOP_KEYS: [&str; 8] = [
     "ts",
     "path",
 ];
-const STATE_KEYS: [&str; 3] = ["g", "label", "product"];
-const TS_KEYS: [&str; 2] = ["g", "label"];
+const STATE_KEYS: [&str; 5] = ["g", "h", "s", "label", "product"];
+const TS_KEYS: [&str; 4] = ["g", "h", "s", "label"];
 const PATH_KEYS: [&str; 3] = ["name", "via", "cycle"];
-const NOT_YET_ENERGY: &str = "give the free energy as g, e.g. { g = 17.9 }; \
-     enthalpy/entropy (h, s) and electronic energies (e) come in a later version";
+const NOT_YET_ENERGY: &str = "give the free energy as g, e.g. { g = 17.9 }, or enthalpy and \
+     entropy as h and s; electronic energies (e) come in a later version";
 
 /// A string value with where it was written.
 #[derive(Debug, Clone)]
@@ -52,6 +52,10 @@ pub(crate) struct RawPoint {
     pub g_span: Range<usize>,
     pub label: Option<String>,
     pub product: Option<bool>,
+    /// Enthalpy and entropy as written (h in the file's unit, s in cal/(mol·K)
+    /// for kcal/mol, J/(mol·K) for kJ/mol, the unit per K for eV and hartree),
+    /// when given instead of g. `g` then holds h − T·s at the file's temperature.
+    pub hs: Option<(f64, f64)>,
 }
 
 /// One `[[path]]` table.
@@ -239,6 +243,7 @@ fn read_point(
         g_span: key.span(),
         label: None,
         product: None,
+        hs: None,
     };
     let what_g = format!("the free energy g of '{id}'");
     match value.get_ref() {
@@ -249,6 +254,8 @@ fn read_point(
         DeValue::Table(table) => {
             let mut has_g = false;
             let mut reserved = false;
+            let mut h: Option<(Option<f64>, Range<usize>)> = None;
+            let mut s: Option<(Option<f64>, Range<usize>)> = None;
             let place = format!("in {noun} '{id}'");
             for (k, v) in fields::entries(table) {
                 match (k.get_ref().as_ref(), kind) {
@@ -256,6 +263,14 @@ fn read_point(
                         has_g = true;
                         point.g = fields::finite_number(v, &what_g, errors);
                         point.g_span = v.span();
+                    }
+                    ("h", _) => {
+                        let what = format!("the enthalpy h of '{id}'");
+                        h = Some((fields::finite_number(v, &what, errors), v.span()));
+                    }
+                    ("s", _) => {
+                        let what = format!("the entropy s of '{id}'");
+                        s = Some((fields::finite_number(v, &what, errors), v.span()));
                     }
                     ("label", _) => {
                         point.label = fields::string(v, &format!("the label of '{id}'"), "label = \"ion pair\"", errors)
@@ -268,7 +283,7 @@ fn read_point(
                         Diagnostic::error(k.span(), format!("'product' applies to states, not to transition state '{id}'"))
                             .with_help("remove it; only minima in [states] can be products"),
                     ),
-                    ("h" | "s" | "e", _) => {
+                    ("e", _) => {
                         reserved = true;
                         errors.push(fields::reserved(k, NOT_YET_ENERGY));
                     }
@@ -279,11 +294,32 @@ fn read_point(
                     )),
                 }
             }
-            if !has_g && !reserved {
-                errors.push(
+            match (has_g, h, s) {
+                (true, None, None) => {}
+                (true, Some((_, span)), _) | (true, None, Some((_, span))) => errors.push(
+                    Diagnostic::error(span, format!("{noun} '{id}' gives both g and h/s"))
+                        .with_help("give either the free energy g, or the enthalpy h with the entropy s (g = h − T·s is then computed at each temperature)"),
+                ),
+                (false, Some((h, h_span)), Some((s, _))) => {
+                    point.g_span = h_span;
+                    // Readable values only; a bad one was reported where it was read.
+                    if let (Some(h), Some(s)) = (h, s) {
+                        point.hs = Some((h, s));
+                    }
+                }
+                (false, Some((_, span)), None) => errors.push(
+                    Diagnostic::error(span, format!("{noun} '{id}' gives h without s"))
+                        .with_help("add the entropy, e.g. s = -12.5 (cal/(mol·K) with kcal/mol, J/(mol·K) with kJ/mol), or give g instead"),
+                ),
+                (false, None, Some((_, span))) => errors.push(
+                    Diagnostic::error(span, format!("{noun} '{id}' gives s without h"))
+                        .with_help("add the enthalpy h in the file's unit, or give g instead"),
+                ),
+                (false, None, None) if !reserved => errors.push(
                     Diagnostic::error(key.span(), format!("{noun} '{id}' has no free energy g"))
-                        .with_help(format!("add it, e.g. {id} = {{ g = 0.0 }}")),
-                );
+                        .with_help(format!("add it, e.g. {id} = {{ g = 0.0 }}, or give h and s")),
+                ),
+                (false, None, None) => {}
             }
         }
         other => errors.push(

@@ -19,7 +19,7 @@ mod suggest;
 mod syntax;
 
 use crate::diag::Diagnostic;
-use crate::model::{Kind, Model, Path, Point};
+use crate::model::{Kind, Model, Path, Point, Thermo};
 use crate::units::Temperature;
 
 pub use document::DEFAULT_TEMPERATURE_K;
@@ -40,7 +40,17 @@ pub fn parse(text: &str) -> Result<Parsed, Vec<Diagnostic>> {
     let mut errors = Vec::new();
     let mut warnings = Vec::new();
 
-    let raw = document::read(&root, &mut errors);
+    let mut raw = document::read(&root, &mut errors);
+    // Points given as h and s get g = h − T·s at the file's temperature, so the
+    // checks below see the free energies that will be used.
+    let t_file = raw.temperature.map_or(DEFAULT_TEMPERATURE_K, |t| t.k());
+    if let Some((unit, _)) = raw.unit {
+        for p in &mut raw.points {
+            if let Some((h, s)) = p.hs {
+                p.g = Some(h - t_file * unit.entropy_per_kelvin(s));
+            }
+        }
+    }
     let points = network::unique_points(raw.points, &mut errors);
     let states_broken = errors
         .iter()
@@ -129,6 +139,17 @@ pub fn parse(text: &str) -> Result<Parsed, Vec<Diagnostic>> {
             product: products[i],
         })
         .collect();
+    let thermo = points
+        .iter()
+        .zip(&g.unwrap_or_default())
+        .map(|(p, &g)| match p.hs {
+            Some((h, s)) => Thermo::Enthalpy {
+                h,
+                s: unit.entropy_per_kelvin(s),
+            },
+            None => Thermo::Fixed(g),
+        })
+        .collect();
     let model = Model {
         title: raw.title,
         temperature,
@@ -145,6 +166,7 @@ pub fn parse(text: &str) -> Result<Parsed, Vec<Diagnostic>> {
             })
             .collect(),
         start,
+        thermo,
     };
     Ok(Parsed {
         model,
