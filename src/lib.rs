@@ -11,9 +11,11 @@
 //!    half-lives, apparent barriers. Never prints, never writes.
 //! 3. [`layout`] — turns the numbers to show into a [`layout::Scene`]
 //!    (positioned lines and text in millimetres). It does not compute kinetics.
-//! 4. [`render`] — draws a scene as SVG. It never sees a profile.
+//! 4. [`render`] — draws a scene as SVG, PNG or PDF. It never sees a profile.
 //!
-//! [`units`] holds the physical constants and units every stage shares, and
+//! [`units`] holds the physical constants and units every stage shares,
+//! [`font`] the bundled typeface that layout measures with and render draws
+//! with, and
 //! `cli` (in the binary) is a thin shell over these functions.
 
 #![forbid(unsafe_code)]
@@ -22,6 +24,7 @@
 pub mod convert;
 pub mod diag;
 pub mod figure;
+pub mod font;
 pub mod format;
 pub mod kinetics;
 pub mod layout;

@@ -67,9 +67,8 @@ impl Default for Style {
         Style {
             width_mm: 85.0,
             height_mm: 65.0,
-            // Widths are estimated with DejaVu Sans metrics, the widest of
-            // these, so the layout holds whichever one the reader has.
-            font_family: "Helvetica, Arial, 'DejaVu Sans', sans-serif".into(),
+            // The bundled font, whose widths the layout measures with.
+            font_family: crate::font::FONT_FAMILY_LIST.into(),
             label_pt: 7.0,
             value_pt: 7.0,
             tick_pt: 7.0,

@@ -1,106 +1,38 @@
-//! Text metrics without a font file: advance widths from a per-character
-//! table, and the line breaks the placement may try for a long label.
+//! Text metrics from the bundled font ([`crate::font`]): exact shaped widths,
+//! and the line breaks the placement may try for a long label.
 //!
-//! The table holds DejaVu Sans advance widths (em fractions). DejaVu Sans is
-//! wider than Helvetica, Arial or Lato, so a layout that fits with these
-//! numbers also fits when the reader's viewer substitutes any of them.
+//! Widths come from the same font and shaper that draw the PNG and the PDF,
+//! so text that does not overlap in the layout does not overlap on the page.
+//! SVG viewers that lack the font fall back to narrower ones (the
+//! `font-family` list names only such), so the layout holds there too.
 
 use super::scene::{Anchor, Rect};
+use crate::font::{self, Face};
 
 /// Millimetres per typographic point.
 pub const PT_MM: f64 = 25.4 / 72.0;
-/// Height above the baseline that glyphs may reach, in em.
+/// Height above the baseline that glyphs may reach, in em (the bundled font's
+/// capitals, digits, Greek, brackets, ‡ and superscripts stay below; only
+/// accented capitals reach higher).
 pub const ASCENT: f64 = 0.80;
 /// Depth below the baseline that glyphs may reach, in em.
 pub const DESCENT: f64 = 0.24;
 /// Baseline-to-baseline distance of multi-line text, in em.
 pub const LINE_HEIGHT: f64 = 1.15;
-/// Safety factor on every width estimate (kerning, hinting, rounding).
-const WIDTH_MARGIN: f64 = 1.03;
 
-/// Advance width of `c` in em.
-// 0.318 is a glyph width, not an approximation of 1/π.
-#[allow(clippy::approx_constant)]
+/// Advance width of `c` in em, in the upright face.
 pub fn char_em(c: char) -> f64 {
-    match c {
-        ' ' => 0.318,
-        '!' => 0.400,
-        '"' => 0.460,
-        '#' => 0.838,
-        '$' => 0.636,
-        '%' => 0.950,
-        '&' => 0.780,
-        '\'' => 0.275,
-        '(' | ')' | '[' | ']' => 0.390,
-        '*' => 0.500,
-        '+' | '<' | '=' | '>' | '^' | '~' => 0.838,
-        ',' | '.' => 0.318,
-        '-' => 0.361,
-        '/' | ':' | ';' | '\\' | '|' => 0.337,
-        '0'..='9' => 0.636,
-        '?' => 0.531,
-        '@' => 1.000,
-        '_' | '`' => 0.500,
-        '{' | '}' => 0.636,
-        'A' | 'V' | 'X' | 'Z' => 0.685,
-        'B' => 0.686,
-        'C' => 0.698,
-        'D' => 0.770,
-        'E' => 0.632,
-        'F' => 0.575,
-        'G' => 0.775,
-        'H' => 0.752,
-        'I' | 'J' => 0.295,
-        'K' => 0.656,
-        'L' => 0.557,
-        'M' => 0.863,
-        'N' => 0.748,
-        'O' | 'Q' => 0.787,
-        'P' => 0.603,
-        'R' => 0.695,
-        'S' => 0.635,
-        'T' | 'Y' => 0.611,
-        'U' => 0.732,
-        'W' => 0.989,
-        'a' => 0.613,
-        'b' | 'd' | 'g' | 'p' | 'q' => 0.635,
-        'c' => 0.550,
-        'e' => 0.615,
-        'f' => 0.352,
-        'h' | 'n' | 'u' => 0.634,
-        'i' | 'j' | 'l' => 0.278,
-        'k' => 0.579,
-        'm' => 0.974,
-        'o' => 0.612,
-        'r' => 0.411,
-        's' => 0.521,
-        't' => 0.392,
-        'v' | 'x' | 'y' => 0.592,
-        'w' => 0.818,
-        'z' => 0.525,
-        '\u{2212}' => 0.838,              // minus sign
-        '\u{2021}' | '\u{2020}' => 0.500, // double dagger, dagger
-        '\u{00B7}' | '\u{2022}' => 0.318, // middle dot, bullet
-        '\u{2070}'..='\u{209F}' => 0.401, // super- and subscripts
-        '\u{00B9}' | '\u{00B2}' | '\u{00B3}' => 0.401,
-        '\u{0300}'..='\u{036F}' => 0.0, // combining marks
-        '\u{200B}'..='\u{200D}' | '\u{FEFF}' => 0.0,
-        c if c.is_control() => 0.0,
-        '\u{0391}'..='\u{03A9}' => 0.760, // Greek capitals
-        '\u{03B1}'..='\u{03C9}' => 0.640, // Greek small letters
-        '\u{1100}'..='\u{11FF}'
-        | '\u{2E80}'..='\u{A4CF}'
-        | '\u{AC00}'..='\u{D7A3}'
-        | '\u{F900}'..='\u{FAFF}'
-        | '\u{FF00}'..='\u{FF60}' => 1.0, // CJK and full-width forms
-        '\u{1F000}'..='\u{1FAFF}' => 1.2, // emoji and symbols
-        _ => 0.700,
-    }
+    font::advance_em(c, Face::Regular)
 }
 
-/// Estimated width of one line of text in mm at `size_pt`.
+/// Width of one line of upright text in mm at `size_pt`.
 pub fn width_mm(line: &str, size_pt: f64) -> f64 {
-    line.chars().map(char_em).sum::<f64>() * size_pt * PT_MM * WIDTH_MARGIN
+    width_mm_in(line, size_pt, Face::Regular)
+}
+
+/// Width of one line of text set in `face`, in mm at `size_pt`.
+pub fn width_mm_in(line: &str, size_pt: f64, face: Face) -> f64 {
+    font::width_em(line, face) * size_pt * PT_MM
 }
 
 /// The bounding box of a block of lines whose first baseline is at `(x, y)`,
@@ -241,9 +173,25 @@ mod tests {
         assert!((width_mm("radical pair", 14.0) - 2.0 * a).abs() < 1e-9);
         assert!(width_mm("radical pair radical pair", 7.0) > 2.0 * a);
         assert!(width_mm("WWW", 7.0) > width_mm("iii", 7.0) * 2.0);
-        // "TS-recombination" is 9.45 em in DejaVu Sans; 7 pt = 2.469 mm.
+        // "TS-recombination": its advance widths in DejaVu Sans's hmtx table
+        // add up to 8.843 em (read with fontTools 4); kerning of "TS" takes a
+        // little off. 7 pt = 2.469 mm.
         let w = width_mm("TS-recombination", 7.0);
-        assert!((21.0..24.5).contains(&w), "{w}");
+        assert!(w < 8.843 * 7.0 * PT_MM && w > 8.75 * 7.0 * PT_MM, "{w}");
+        assert!(width_mm_in("TS-recombination", 7.0, Face::Italic) > 0.9 * w);
+    }
+
+    #[test]
+    fn ascent_and_descent_bound_the_ink_of_label_characters() {
+        let chars = "ABCDEFGHIJKLMNOPQRSTUVWXYZabcdefghijklmnopqrstuvwxyz0123456789\
+                     ()[]{}αβγδΔεζηθκλμνξπρστφχψωΓΘΛΞΣΦΨΩ‡†−⁻⁰¹²³⁴⁵⁶⁷⁸⁹⁺₀₁₂₃₄₅₆₇₈₉₊₋·°⇌→±×–—|@";
+        for face in [Face::Regular, Face::Italic] {
+            for c in chars.chars() {
+                if let Some((top, bottom)) = crate::font::ink_extent_em(c, face) {
+                    assert!(top <= ASCENT && bottom >= -DESCENT, "{c}: {top} {bottom}");
+                }
+            }
+        }
     }
 
     #[test]

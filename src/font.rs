@@ -1,0 +1,120 @@
+//! The one typeface every figure is drawn in, bundled in the binary.
+//!
+//! DejaVu Sans (regular and oblique, Bitstream Vera licence, see
+//! `assets/fonts/`) covers Latin, Greek, ‡, the minus sign, superscript and
+//! subscript digits and signs, ·, ° and arrows such as ⇌, so no fallback font
+//! is ever needed. The layout measures text here, with the same shaper
+//! (rustybuzz) that draws the PNG and the PDF, so the widths it plans with are
+//! the widths that get drawn: exactly, kerning included.
+
+use std::sync::OnceLock;
+
+/// The family name of the bundled font.
+pub const FAMILY: &str = "DejaVu Sans";
+
+/// The `font-family` list written into SVG files: the bundled font first, then
+/// fonts that are narrower than it (so the layout still holds in a viewer that
+/// lacks DejaVu Sans), then the generic family.
+pub const FONT_FAMILY_LIST: &str = "'DejaVu Sans', Arial, Helvetica, sans-serif";
+
+/// DejaVu Sans Book, 2.37.
+pub static REGULAR: &[u8] = include_bytes!("../assets/fonts/DejaVuSans.ttf");
+
+/// DejaVu Sans Oblique, 2.37 (used for italic text).
+pub static ITALIC: &[u8] = include_bytes!("../assets/fonts/DejaVuSans-Oblique.ttf");
+
+/// Which face of the bundled font a run of text is set in.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, Default)]
+pub enum Face {
+    /// Upright text.
+    #[default]
+    Regular,
+    /// Italic text (`font-style="italic"` in SVG; DejaVu Sans Oblique).
+    Italic,
+}
+
+fn face(which: Face) -> &'static rustybuzz::Face<'static> {
+    static REGULAR_FACE: OnceLock<rustybuzz::Face<'static>> = OnceLock::new();
+    static ITALIC_FACE: OnceLock<rustybuzz::Face<'static>> = OnceLock::new();
+    let (cell, data) = match which {
+        Face::Regular => (&REGULAR_FACE, REGULAR),
+        Face::Italic => (&ITALIC_FACE, ITALIC),
+    };
+    cell.get_or_init(|| rustybuzz::Face::from_slice(data, 0).expect("the bundled font parses"))
+}
+
+fn per_em(face: &rustybuzz::Face<'_>) -> f64 {
+    f64::from(face.units_per_em())
+}
+
+/// Advance width of `c` alone, in em. A character the font lacks is drawn as
+/// the font's missing-glyph box and measured as such.
+pub fn advance_em(c: char, which: Face) -> f64 {
+    let f = face(which);
+    let glyph = f
+        .glyph_index(c)
+        .unwrap_or(rustybuzz::ttf_parser::GlyphId(0));
+    f64::from(f.glyph_hor_advance(glyph).unwrap_or(0)) / per_em(f)
+}
+
+/// Width of one line of text in em, shaped left to right as resvg and svg2pdf
+/// shape it (default OpenType features, so kerning applies).
+pub fn width_em(text: &str, which: Face) -> f64 {
+    if text.is_empty() {
+        return 0.0;
+    }
+    let f = face(which);
+    let mut buffer = rustybuzz::UnicodeBuffer::new();
+    buffer.push_str(text);
+    buffer.set_direction(rustybuzz::Direction::LeftToRight);
+    let shaped = rustybuzz::shape(f, &[], buffer);
+    let units: i64 = shaped
+        .glyph_positions()
+        .iter()
+        .map(|p| i64::from(p.x_advance))
+        .sum();
+    units as f64 / per_em(f)
+}
+
+/// Whether the bundled font has a glyph for `c` (else it draws a box).
+pub fn covers(c: char) -> bool {
+    face(Face::Regular).glyph_index(c).is_some()
+}
+
+/// Highest and lowest ink of `c` relative to the baseline, in em (up is
+/// positive), or `None` for a character without outline (a space).
+pub fn ink_extent_em(c: char, which: Face) -> Option<(f64, f64)> {
+    let f = face(which);
+    let bbox = f.glyph_bounding_box(f.glyph_index(c)?)?;
+    let em = per_em(f);
+    Some((f64::from(bbox.y_max) / em, f64::from(bbox.y_min) / em))
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn covers_what_mechanism_labels_use() {
+        for c in "AZaz09αβγδΔεκμνπσφχψωΩ‡†−⁻⁰¹²³⁴⁵⁶⁷⁸⁹⁺₀₁₂₃₄₅₆₇₈₉₊₋·°⇌→±×–—".chars()
+        {
+            assert!(covers(c), "{c} (U+{:04X}) is missing", c as u32);
+        }
+        assert!(!covers('\u{E000}'));
+    }
+
+    #[test]
+    fn widths_are_the_font_advances() {
+        // DejaVu Sans has 2048 units per em; digits advance 1303 units, the
+        // space 651 (from the font's hmtx table, read with fontTools 4).
+        assert!((advance_em('0', Face::Regular) - 1303.0 / 2048.0).abs() < 1e-12);
+        assert!((advance_em(' ', Face::Regular) - 651.0 / 2048.0).abs() < 1e-12);
+        // Without kerning pairs, the shaped width is the sum of advances.
+        let sum: f64 = "12.5".chars().map(|c| advance_em(c, Face::Regular)).sum();
+        assert!((width_em("12.5", Face::Regular) - sum).abs() < 1e-12);
+        // Kerning pulls "AV" together: shaped width below the advance sum.
+        let av: f64 = "AV".chars().map(|c| advance_em(c, Face::Regular)).sum();
+        assert!(width_em("AV", Face::Regular) < av);
+        assert_eq!(width_em("", Face::Italic), 0.0);
+    }
+}

@@ -1,0 +1,36 @@
+//! The SVG text parsed into a usvg tree, with every `font-family` resolved to
+//! the bundled font: no system font is ever loaded, so PNG and PDF come out
+//! the same on every machine.
+
+use super::RenderError;
+use resvg::usvg::{self, fontdb};
+use std::sync::{Arc, OnceLock};
+
+/// A font database holding only the bundled faces, also standing in for every
+/// generic family (`sans-serif`, `serif`, …).
+fn fonts() -> Arc<fontdb::Database> {
+    static DB: OnceLock<Arc<fontdb::Database>> = OnceLock::new();
+    DB.get_or_init(|| {
+        let mut db = fontdb::Database::new();
+        db.load_font_data(crate::font::REGULAR.to_vec());
+        db.load_font_data(crate::font::ITALIC.to_vec());
+        let family = crate::font::FAMILY;
+        db.set_sans_serif_family(family);
+        db.set_serif_family(family);
+        db.set_monospace_family(family);
+        db.set_cursive_family(family);
+        db.set_fantasy_family(family);
+        Arc::new(db)
+    })
+    .clone()
+}
+
+/// Parses an SVG written by [`super::to_svg`].
+pub(super) fn parse(svg: &str) -> Result<usvg::Tree, RenderError> {
+    let options = usvg::Options {
+        font_family: crate::font::FAMILY.to_string(),
+        fontdb: fonts(),
+        ..usvg::Options::default()
+    };
+    usvg::Tree::from_str(svg, &options).map_err(|e| RenderError::Svg(e.to_string()))
+}
