@@ -19,6 +19,13 @@ pub struct AnalysisReport {
     pub unit: &'static str,
     /// The state reported at 0, or null when energies are as written.
     pub zero: Option<String>,
+    /// Tunnelling correction in use: "none", "wigner" or "bell".
+    pub tunnelling: &'static str,
+    /// Pressure standard state the energies were converted from ("1 atm", "1 bar"),
+    /// or null when they are already at 1 mol/L.
+    pub standard_state: Option<&'static str>,
+    /// Free co-reactants and their concentrations (mol/L) folded into the energies.
+    pub coreactants: std::collections::BTreeMap<String, f64>,
     /// Every stationary point with its (shifted) energy.
     pub points: Vec<PointReport>,
     /// Every elementary step.
@@ -109,6 +116,10 @@ pub struct StepReport {
     pub half_life_forward_s: f64,
     /// ln 2 / k_reverse, s.
     pub half_life_reverse_s: f64,
+    /// Transmission coefficient κ used in both directions (explicit kappa × tunnelling).
+    pub kappa: f64,
+    /// Why a requested tunnelling correction was replaced, or null.
+    pub kappa_note: Option<String>,
 }
 
 /// One path's apparent barrier.
@@ -156,17 +167,24 @@ impl AnalysisReport {
                 k_reverse: s.k_reverse.per_second(),
                 half_life_forward_s: s.k_forward.half_life_s(),
                 half_life_reverse_s: s.k_reverse.half_life_s(),
+                kappa: s.kappa,
+                kappa_note: s.kappa_note.clone(),
             })
             .collect();
         let paths = analysis
             .paths
             .iter()
             .map(|p| {
+                // The determining TS's transmission coefficient applies to the
+                // apparent rate as it does to its own step.
+                let kappa = p.determining_ts.map_or(1.0, |ts| {
+                    crate::kinetics::analysis::transmission(model, ts, analysis.temperature).0
+                });
                 let k = crate::kinetics::rate_constant(
                     p.apparent_barrier,
                     analysis.unit,
                     analysis.temperature,
-                    1.0,
+                    kappa,
                 );
                 PathReport {
                     name: model.paths()[p.path].name.clone(),
@@ -194,6 +212,18 @@ impl AnalysisReport {
             temperature_k: analysis.temperature.k(),
             unit: analysis.unit.name(),
             zero: model.zero().map(id),
+            tunnelling: match model.tunnelling() {
+                crate::model::Tunnelling::None => "none",
+                crate::model::Tunnelling::Wigner => "wigner",
+                crate::model::Tunnelling::Bell => "bell",
+            },
+            standard_state: model.standard_state().map(|p| match p {
+                crate::kinetics::corrections::PressureStandard::Atmosphere => "1 atm",
+                crate::kinetics::corrections::PressureStandard::Bar => "1 bar",
+            }),
+            coreactants: (0..model.points().len())
+                .flat_map(|i| model.extras(i).with)
+                .collect(),
             points,
             steps,
             paths,

@@ -37,10 +37,33 @@ fn table(r: &AnalysisReport, decimals: usize) -> String {
         Some(z) => format!("relative to {z}"),
         None => "as written".to_string(),
     };
+    let any_kappa = r.steps.iter().any(|s| s.kappa != 1.0);
+    let kappa = match (r.tunnelling, any_kappa) {
+        ("none", false) => "κ = 1".to_string(),
+        ("none", true) => "κ as given per TS".to_string(),
+        (name, _) => format!("κ with {name} tunnelling"),
+    };
     out.push_str(&format!(
-        "T = {t}; energies in {} {reference}; Eyring, κ = 1\n\n",
+        "T = {t}; energies in {} {reference}; Eyring, {kappa}\n",
         r.unit
     ));
+    if let Some(p) = r.standard_state {
+        out.push_str(&format!(
+            "energies converted from the {p} to the 1 mol/L standard state (per species)\n"
+        ));
+    }
+    if !r.coreactants.is_empty() {
+        let list: Vec<String> = r
+            .coreactants
+            .iter()
+            .map(|(n, c)| format!("{n} {} mol/L", format::scientific(*c)))
+            .collect();
+        out.push_str(&format!(
+            "free co-reactants at {} folded into the energies (pseudo-first order)\n",
+            list.join(", ")
+        ));
+    }
+    out.push('\n');
 
     let names: Vec<String> = r
         .steps
@@ -60,6 +83,11 @@ fn table(r: &AnalysisReport, decimals: usize) -> String {
         "{:<width$}  {:>8}  {:>8}  {:>10}  {:>10}  {:>10}  {:>10}\n",
         "step", "ΔG‡ fwd", "ΔG‡ rev", "k fwd/s⁻¹", "k rev/s⁻¹", "t½ fwd", "t½ rev"
     ));
+    let notes: Vec<&String> = r
+        .steps
+        .iter()
+        .filter_map(|s| s.kappa_note.as_ref())
+        .collect();
     for (name, s) in names.iter().zip(&r.steps) {
         out.push_str(&format!(
             "{:<width$}  {:>8}  {:>8}  {:>10}  {:>10}  {:>10}  {:>10}\n",
@@ -71,6 +99,16 @@ fn table(r: &AnalysisReport, decimals: usize) -> String {
             format::duration(s.half_life_forward_s),
             format::duration(s.half_life_reverse_s),
         ));
+    }
+    if any_kappa {
+        for (name, s) in names.iter().zip(&r.steps) {
+            if s.kappa != 1.0 {
+                out.push_str(&format!("  κ({name}) = {:.3}\n", s.kappa));
+            }
+        }
+    }
+    for n in notes {
+        out.push_str(&format!("  note: {n}\n"));
     }
 
     out.push('\n');

@@ -16,8 +16,13 @@ pub struct StepKinetics {
     pub barrier_reverse: f64,
     /// Forward rate constant (κ = 1).
     pub k_forward: RateConstant,
-    /// Reverse rate constant (κ = 1); the same TS, so microscopic reversibility holds.
+    /// Reverse rate constant; the same TS and κ, so microscopic reversibility holds.
     pub k_reverse: RateConstant,
+    /// The transmission coefficient applied in both directions: the TS's `kappa`
+    /// times its tunnelling correction (1 for a barrierless step).
+    pub kappa: f64,
+    /// Why the requested tunnelling correction was replaced, if it was.
+    pub kappa_note: Option<String>,
 }
 
 /// The apparent barrier of one path: the largest rise from a minimum to a
@@ -78,12 +83,41 @@ fn step_kinetics(model: &Model, step: Step, t: Temperature, unit: EnergyUnit) ->
             (rise.max(0.0), (-rise).max(0.0))
         }
     };
+    let (kappa, kappa_note) = step.ts.map_or((1.0, None), |ts| transmission(model, ts, t));
     StepKinetics {
         step,
         barrier_forward: forward,
         barrier_reverse: reverse,
-        k_forward: rate_constant(forward, unit, t, 1.0),
-        k_reverse: rate_constant(reverse, unit, t, 1.0),
+        k_forward: rate_constant(forward, unit, t, kappa),
+        k_reverse: rate_constant(reverse, unit, t, kappa),
+        kappa,
+        kappa_note,
+    }
+}
+
+/// κ of a transition state at `t`: its explicit `kappa` times the tunnelling
+/// correction the model asks for. Bell's form beyond its validity (u ≥ 2π) is
+/// replaced by Wigner's, with a note saying so.
+pub fn transmission(model: &Model, ts: PointId, t: Temperature) -> (f64, Option<String>) {
+    use crate::kinetics::corrections::{bell, wigner};
+    use crate::model::Tunnelling;
+    let extras = model.extras(ts);
+    let Some(nu) = extras.imaginary_frequency else {
+        return (extras.kappa, None);
+    };
+    match model.tunnelling() {
+        Tunnelling::None => (extras.kappa, None),
+        Tunnelling::Wigner => (extras.kappa * wigner(nu, t), None),
+        Tunnelling::Bell => match bell(nu, t) {
+            Ok(k) => (extras.kappa * k, None),
+            Err(e) => (
+                extras.kappa * wigner(nu, t),
+                Some(format!(
+                    "{}: {e}; Wigner's correction used instead",
+                    model.point(ts).id
+                )),
+            ),
+        },
     }
 }
 

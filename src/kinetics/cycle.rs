@@ -62,7 +62,11 @@ pub fn analyze_cycle(model: &Model, path: usize) -> Option<CycleAnalysis> {
     let ts_g: Vec<f64> = ts
         .iter()
         .map(|t| match *t {
-            CycleTs::Ts(id) => g(id),
+            // A transmission coefficient acts as a lower effective TS energy.
+            CycleTs::Ts(id) => {
+                let kappa = super::analysis::transmission(model, id, model.temperature()).0;
+                g(id) - model.temperature().rt(model.unit()) * kappa.ln()
+            }
             CycleTs::Barrierless(a, b) => g(a).max(g(b)),
         })
         .collect();

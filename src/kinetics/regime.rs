@@ -63,7 +63,8 @@ pub struct Channel {
     pub product: PointId,
     /// Its transition state (`None`: barrierless).
     pub ts: Option<PointId>,
-    /// The highest energy on the step, in the model's unit.
+    /// The highest energy on the step, in the model's unit (a TS's energy minus
+    /// RT·ln κ when it carries a transmission coefficient).
     pub top: f64,
 }
 
@@ -103,14 +104,21 @@ pub fn selectivity(model: &Model, start: Option<&[PointId]>) -> Option<Selectivi
     let fmt = |v: f64| crate::format::energy(v, unit.display_decimals(), false);
     let in_pool = |p: PointId| model.point(p).kind == Kind::Minimum && !model.point(p).product;
 
+    // The top of a step: its TS energy, lowered by RT·ln κ when the TS carries a
+    // transmission coefficient (tunnelling, explicit kappa), so every comparison
+    // and rate below sees the same effective barrier.
+    let step_top = |s: &crate::model::Step| match s.ts {
+        Some(ts) => {
+            let kappa = super::analysis::transmission(model, ts, t).0;
+            g(ts) - t.rt(unit) * kappa.ln()
+        }
+        None => g(s.from).max(g(s.to)),
+    };
     // Channels and pool edges (with the top energy of each step).
     let mut channels = Vec::new();
     let mut pool_edges: Vec<(PointId, PointId, f64)> = Vec::new();
     for s in model.steps() {
-        let top = match s.ts {
-            Some(ts) => g(ts),
-            None => g(s.from).max(g(s.to)),
-        };
+        let top = step_top(s);
         match (in_pool(s.from), in_pool(s.to)) {
             (true, true) => pool_edges.push((s.from, s.to, top)),
             (true, false) => channels.push(Channel {
@@ -251,10 +259,7 @@ pub fn selectivity(model: &Model, start: Option<&[PointId]>) -> Option<Selectivi
     } else {
         let mut net = Network::new(n);
         for s in model.steps() {
-            let top = match s.ts {
-                Some(ts) => g(ts),
-                None => g(s.from).max(g(s.to)),
-            };
+            let top = step_top(s);
             net.add(
                 s.from,
                 s.to,
@@ -421,6 +426,9 @@ mod tests {
             ],
             start: vec![],
             thermo: vec![],
+            extras: vec![],
+            tunnelling: Default::default(),
+            standard_state: None,
         }
     }
 

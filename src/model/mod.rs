@@ -85,6 +85,45 @@ impl Thermo {
     }
 }
 
+/// Which tunnelling correction multiplies the rate through each TS that gives
+/// its imaginary frequency (`tunnelling = …`).
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Default)]
+pub enum Tunnelling {
+    /// κ = 1 (apart from an explicit `kappa`).
+    #[default]
+    None,
+    /// Wigner, κ = 1 + u²/24.
+    Wigner,
+    /// Bell's truncated parabolic form, valid for u < 2π (Wigner beyond, with a note).
+    Bell,
+}
+
+/// What a point's energy needs besides its own value: transition-state
+/// parameters and the conditions that shift its free energy.
+#[derive(Debug, Clone, PartialEq)]
+pub struct PointExtras {
+    /// Magnitude of the imaginary frequency, cm⁻¹ (transition states only).
+    pub imaginary_frequency: Option<f64>,
+    /// Explicit transmission coefficient (default 1).
+    pub kappa: f64,
+    /// Number of separate molecules the state stands for, for the
+    /// standard-state correction (default 1).
+    pub species: u32,
+    /// Concentrations (mol/L) of the free co-reactants present in this state.
+    pub with: Vec<(String, f64)>,
+}
+
+impl Default for PointExtras {
+    fn default() -> Self {
+        PointExtras {
+            imaginary_frequency: None,
+            kappa: 1.0,
+            species: 1,
+            with: Vec::new(),
+        }
+    }
+}
+
 /// A validated profile.
 #[derive(Debug, Clone, PartialEq)]
 pub struct Model {
@@ -99,6 +138,13 @@ pub struct Model {
     /// Raw energies per point, so G can follow the temperature; empty means the
     /// points' `g` are fixed as given.
     pub(crate) thermo: Vec<Thermo>,
+    /// Per-point extras (same order as `points`; empty means all defaults).
+    pub(crate) extras: Vec<PointExtras>,
+    /// The tunnelling correction in use.
+    pub(crate) tunnelling: Tunnelling,
+    /// The pressure standard state the energies were computed at, when they are
+    /// to be converted to 1 mol/L.
+    pub(crate) standard_state: Option<crate::kinetics::corrections::PressureStandard>,
 }
 
 impl Model {
@@ -148,15 +194,51 @@ impl Model {
         &self.thermo
     }
 
+    /// The extras of one point (defaults when the model has none).
+    pub fn extras(&self, id: PointId) -> PointExtras {
+        self.extras.get(id).cloned().unwrap_or_default()
+    }
+
+    /// The tunnelling correction in use.
+    pub fn tunnelling(&self) -> Tunnelling {
+        self.tunnelling
+    }
+
+    /// The pressure standard state energies are converted from, if any.
+    pub fn standard_state(&self) -> Option<crate::kinetics::corrections::PressureStandard> {
+        self.standard_state
+    }
+
+    /// The free energy of point `i` at the model's temperature, before the `zero`
+    /// shift: its own G plus the standard-state and co-reactant terms.
+    fn effective(&self, i: PointId) -> f64 {
+        use crate::kinetics::corrections::{pseudo_first_order_shift, standard_state_shift};
+        let t = self.temperature;
+        let mut g = self.thermo[i].g(t.k());
+        if let Some(extras) = self.extras.get(i) {
+            if let Some(p) = self.standard_state {
+                g += f64::from(extras.species) * standard_state_shift(p, t, self.unit);
+            }
+            // A free co-reactant at c mol/L lowers the state by RT·ln(c/c°) relative
+            // to 1 mol/L, i.e. raises every barrier that consumes it by −RT·ln(c/c°).
+            for (_, c) in &extras.with {
+                g -= pseudo_first_order_shift(*c, t, self.unit);
+            }
+        }
+        g
+    }
+
     /// Recomputes every G at the model's temperature, shifted to `zero`.
-    fn refresh(&mut self) {
+    pub(crate) fn refresh(&mut self) {
         if self.thermo.len() != self.points.len() {
             return;
         }
-        let t = self.temperature.k();
-        let offset = self.zero.map_or(0.0, |z| self.thermo[z].g(t));
-        for (p, th) in self.points.iter_mut().zip(&self.thermo) {
-            p.g = th.g(t) - offset;
+        let offset = self.zero.map_or(0.0, |z| self.effective(z));
+        let values: Vec<f64> = (0..self.points.len())
+            .map(|i| self.effective(i) - offset)
+            .collect();
+        for (p, g) in self.points.iter_mut().zip(values) {
+            p.g = g;
         }
     }
     /// The unit energies are written and reported in.

@@ -17,18 +17,29 @@ use crate::units::{EnergyUnit, Temperature};
 /// reference temperature of tabulated free energies.
 pub const DEFAULT_TEMPERATURE_K: f64 = 298.15;
 
-const TOP_KEYS: [&str; 8] = [
+const TOP_KEYS: [&str; 11] = [
     "title",
     "temperature",
     "unit",
     "zero",
     "start",
+    "tunnelling",
+    "standard_state",
+    "coreactants",
     "states",
     "ts",
     "path",
 ];
-const STATE_KEYS: [&str; 5] = ["g", "h", "s", "label", "product"];
-const TS_KEYS: [&str; 4] = ["g", "h", "s", "label"];
+const STATE_KEYS: [&str; 7] = ["g", "h", "s", "label", "product", "species", "with"];
+const TS_KEYS: [&str; 7] = [
+    "g",
+    "h",
+    "s",
+    "label",
+    "species",
+    "imaginary_frequency",
+    "kappa",
+];
 const PATH_KEYS: [&str; 3] = ["name", "via", "cycle"];
 const NOT_YET_ENERGY: &str = "give the free energy as g, e.g. { g = 17.9 }, or enthalpy and \
      entropy as h and s; electronic energies (e) come in a later version";
@@ -56,6 +67,14 @@ pub(crate) struct RawPoint {
     /// for kcal/mol, J/(mol·K) for kJ/mol, the unit per K for eV and hartree),
     /// when given instead of g. `g` then holds h − T·s at the file's temperature.
     pub hs: Option<(f64, f64)>,
+    /// `species`: separate molecules in this state (standard-state correction).
+    pub species: Option<u32>,
+    /// `with`: free co-reactants present in this state.
+    pub with: Vec<Located>,
+    /// `imaginary_frequency` in cm⁻¹ (magnitude).
+    pub imaginary_frequency: Option<f64>,
+    /// `kappa`: explicit transmission coefficient.
+    pub kappa: Option<f64>,
 }
 
 /// One `[[path]]` table.
@@ -77,6 +96,12 @@ pub(crate) struct RawProfile {
     pub zero: Option<Located>,
     /// `start`: the state(s) the material starts in, for selectivity.
     pub start: Option<Vec<Located>>,
+    /// `tunnelling`: the correction to apply to TSs with an imaginary frequency.
+    pub tunnelling: Option<crate::model::Tunnelling>,
+    /// `standard_state`: the pressure standard state of the energies, if not 1 mol/L.
+    pub standard_state: Option<crate::kinetics::corrections::PressureStandard>,
+    /// `[coreactants]`: name → concentration in mol/L, with where each is written.
+    pub coreactants: Vec<(Located, f64)>,
     /// Where `[states]` is written, for file-wide warnings.
     pub states_span: Option<Range<usize>>,
     pub points: Vec<RawPoint>,
@@ -108,6 +133,9 @@ pub(crate) fn read(root: &DeTable<'_>, errors: &mut Vec<Diagnostic>) -> RawProfi
                     })
             }
             "start" => raw.start = read_id_list(value, "start", "start = \"rot-a\"", errors),
+            "tunnelling" => raw.tunnelling = read_tunnelling(value, errors),
+            "standard_state" => raw.standard_state = read_standard_state(value, errors),
+            "coreactants" => raw.coreactants = read_coreactants(value, errors),
             "states" => {
                 raw.states_span = Some(value.span());
                 read_points(value, Kind::Minimum, &mut raw.points, errors);
@@ -244,6 +272,10 @@ fn read_point(
         label: None,
         product: None,
         hs: None,
+        species: None,
+        with: Vec::new(),
+        imaginary_frequency: None,
+        kappa: None,
     };
     let what_g = format!("the free energy g of '{id}'");
     match value.get_ref() {
@@ -283,6 +315,14 @@ fn read_point(
                         Diagnostic::error(k.span(), format!("'product' applies to states, not to transition state '{id}'"))
                             .with_help("remove it; only minima in [states] can be products"),
                     ),
+                    ("species", _) => point.species = read_species(v, &id, errors),
+                    ("with", Kind::Minimum) => {
+                        point.with = read_id_list(v, "with", "with = \"water\"", errors).unwrap_or_default()
+                    }
+                    ("imaginary_frequency", Kind::TransitionState) => {
+                        point.imaginary_frequency = read_frequency(v, &id, errors)
+                    }
+                    ("kappa", Kind::TransitionState) => point.kappa = read_kappa(v, &id, errors),
                     ("e", _) => {
                         reserved = true;
                         errors.push(fields::reserved(k, NOT_YET_ENERGY));
@@ -515,5 +555,174 @@ fn read_id_list(
             ids.into_iter().collect()
         }
         _ => one(value, errors).map(|l| vec![l]),
+    }
+}
+
+fn read_tunnelling(
+    value: &Value<'_>,
+    errors: &mut Vec<Diagnostic>,
+) -> Option<crate::model::Tunnelling> {
+    use crate::model::Tunnelling;
+    let text = fields::string(value, "tunnelling", "tunnelling = \"wigner\"", errors)?;
+    match text.trim().to_ascii_lowercase().as_str() {
+        "none" => Some(Tunnelling::None),
+        "wigner" => Some(Tunnelling::Wigner),
+        "bell" => Some(Tunnelling::Bell),
+        _ => {
+            errors.push(
+                Diagnostic::error(value.span(), format!("unknown tunnelling correction '{text}'"))
+                    .with_help("use \"wigner\", \"bell\" or \"none\" (each TS then needs its imaginary_frequency)"),
+            );
+            None
+        }
+    }
+}
+
+fn read_standard_state(
+    value: &Value<'_>,
+    errors: &mut Vec<Diagnostic>,
+) -> Option<crate::kinetics::corrections::PressureStandard> {
+    use crate::kinetics::corrections::PressureStandard;
+    let text = fields::string(
+        value,
+        "standard_state",
+        "standard_state = \"1 atm\"",
+        errors,
+    )?;
+    let t: String = text
+        .to_ascii_lowercase()
+        .chars()
+        .filter(|c| !c.is_whitespace())
+        .collect();
+    match t.as_str() {
+        "1atm" | "atm" => Some(PressureStandard::Atmosphere),
+        "1bar" | "bar" => Some(PressureStandard::Bar),
+        "1m" | "1mol/l" | "m" | "mol/l" => None,
+        _ => {
+            errors.push(
+                Diagnostic::error(value.span(), format!("unknown standard state '{text}'"))
+                    .with_help("write the standard state your energies were computed at: \"1 atm\" (most gas-phase \
+                                quantum-chemistry output), \"1 bar\", or \"1 M\" (no correction)"),
+            );
+            None
+        }
+    }
+}
+
+fn read_coreactants(value: &Value<'_>, errors: &mut Vec<Diagnostic>) -> Vec<(Located, f64)> {
+    let DeValue::Table(table) = value.get_ref() else {
+        errors.push(
+            Diagnostic::error(value.span(), format!("[coreactants] must be a table, found {}", fields::kind_of(value.get_ref())))
+                .with_help("list each co-reactant with its concentration in mol/L:\n[coreactants]\nwater = 0.5"),
+        );
+        return Vec::new();
+    };
+    let mut out = Vec::new();
+    for (k, v) in fields::entries(table) {
+        let name = k.get_ref().to_string();
+        let what = format!("the concentration of '{name}'");
+        let c = match v.get_ref() {
+            DeValue::String(s) => {
+                let t = s.trim();
+                let number = t
+                    .strip_suffix("mol/L")
+                    .or_else(|| t.strip_suffix("M"))
+                    .unwrap_or(t)
+                    .trim()
+                    .parse::<f64>()
+                    .ok();
+                if number.is_none() {
+                    errors.push(
+                        Diagnostic::error(v.span(), format!("cannot read {what}: '{s}'"))
+                            .with_help(format!(
+                                "write a number in mol/L, e.g. {name} = 0.5 or {name} = \"0.5 M\""
+                            )),
+                    );
+                }
+                number
+            }
+            _ => fields::finite_number(v, &what, errors),
+        };
+        let Some(c) = c else { continue };
+        if !(c.is_finite() && c > 0.0) {
+            errors.push(
+                Diagnostic::error(v.span(), format!("{what} must be above 0 mol/L, found {c}"))
+                    .with_help("give the concentration during the reaction in mol/L, e.g. 0.5"),
+            );
+            continue;
+        }
+        out.push((
+            Located {
+                text: name,
+                span: k.span(),
+            },
+            c,
+        ));
+    }
+    out
+}
+
+fn read_species(value: &Value<'_>, id: &str, errors: &mut Vec<Diagnostic>) -> Option<u32> {
+    let n = fields::finite_number(value, &format!("species of '{id}'"), errors)?;
+    if n >= 1.0 && n <= 100.0 && n.fract() == 0.0 {
+        Some(n as u32)
+    } else {
+        errors.push(
+            Diagnostic::error(value.span(), format!("species of '{id}' must be a whole number from 1, found {n}"))
+                .with_help("count the separate molecules this state stands for, e.g. species = 2 for \"catalyst + substrate\""),
+        );
+        None
+    }
+}
+
+fn read_frequency(value: &Value<'_>, id: &str, errors: &mut Vec<Diagnostic>) -> Option<f64> {
+    let what = format!("the imaginary frequency of '{id}'");
+    let nu = match value.get_ref() {
+        DeValue::String(s) => {
+            let t = s
+                .trim()
+                .trim_end_matches("cm-1")
+                .trim_end_matches("cm⁻¹")
+                .trim();
+            let t = t.strip_suffix('i').unwrap_or(t).trim();
+            match t.parse::<f64>() {
+                Ok(v) if v.is_finite() => v,
+                _ => {
+                    errors.push(
+                        Diagnostic::error(value.span(), format!("cannot read {what}: '{s}'"))
+                            .with_help("write the wavenumber in cm⁻¹, e.g. imaginary_frequency = 1250 (or \"1250i\")"),
+                    );
+                    return None;
+                }
+            }
+        }
+        _ => fields::finite_number(value, &what, errors)?,
+    };
+    let nu = nu.abs();
+    if nu == 0.0 || nu > 5000.0 {
+        errors.push(
+            Diagnostic::error(
+                value.span(),
+                format!("{what} is {nu} cm⁻¹, outside 0–5000 cm⁻¹"),
+            )
+            .with_help(
+                "give the magnitude of the TS's single imaginary frequency in cm⁻¹, e.g. 1250",
+            ),
+        );
+        return None;
+    }
+    Some(nu)
+}
+
+fn read_kappa(value: &Value<'_>, id: &str, errors: &mut Vec<Diagnostic>) -> Option<f64> {
+    let k = fields::finite_number(value, &format!("kappa of '{id}'"), errors)?;
+    if k > 0.0 {
+        Some(k)
+    } else {
+        errors.push(
+            Diagnostic::error(value.span(), format!("kappa of '{id}' must be above 0, found {k}"))
+                .with_help("the transmission coefficient multiplies the Eyring rate; 1 means none, e.g. kappa = 0.5"),
+        );
+        None
     }
 }

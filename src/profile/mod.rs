@@ -71,6 +71,13 @@ pub fn parse(text: &str) -> Result<Parsed, Vec<Diagnostic>> {
     let (paths, paths_ok) = network::resolve_paths(&points, &raw.paths, &mut errors);
     let zero = energy::resolve_zero(raw.zero.as_ref(), &points, &mut errors);
     let start = network::resolve_start(raw.start.as_deref().unwrap_or(&[]), &points, &mut errors);
+    let extras = network::resolve_extras(
+        &points,
+        &raw.coreactants,
+        raw.tunnelling.unwrap_or_default(),
+        &mut errors,
+        &mut warnings,
+    );
 
     let steps = network::derive_steps(&paths, &points);
     let products = network::products(&paths, &points);
@@ -167,7 +174,12 @@ pub fn parse(text: &str) -> Result<Parsed, Vec<Diagnostic>> {
             .collect(),
         start,
         thermo,
+        extras,
+        tunnelling: raw.tunnelling.unwrap_or_default(),
+        standard_state: raw.standard_state,
     };
+    let mut model = model;
+    model.refresh();
     Ok(Parsed {
         model,
         warnings: sorted(warnings),

@@ -333,3 +333,57 @@ pub(crate) fn resolve_start(
     }
     out
 }
+
+/// Per-point extras: co-reactants named in `with` must be listed in
+/// `[coreactants]`; a tunnelling correction needs each TS's imaginary frequency.
+pub(crate) fn resolve_extras(
+    points: &[RawPoint],
+    coreactants: &[(Located, f64)],
+    tunnelling: crate::model::Tunnelling,
+    errors: &mut Vec<Diagnostic>,
+    warnings: &mut Vec<Diagnostic>,
+) -> Vec<crate::model::PointExtras> {
+    use crate::model::{PointExtras, Tunnelling};
+    let mut out = Vec::new();
+    for p in points {
+        let mut with = Vec::new();
+        for name in &p.with {
+            match coreactants.iter().find(|(c, _)| c.text == name.text) {
+                Some((_, conc)) => with.push((name.text.clone(), *conc)),
+                None => {
+                    let known = coreactants.iter().map(|(c, _)| c.text.as_str());
+                    let help = match crate::profile::suggest::nearest(&name.text, known) {
+                        Some(s) => format!("did you mean '{s}'?"),
+                        None => format!(
+                            "list it with its concentration in mol/L:\n[coreactants]\n{} = 0.5",
+                            name.text
+                        ),
+                    };
+                    errors.push(
+                        Diagnostic::error(
+                            name.span.clone(),
+                            format!("co-reactant '{}' is not in [coreactants]", name.text),
+                        )
+                        .with_help(help),
+                    );
+                }
+            }
+        }
+        if tunnelling != Tunnelling::None
+            && p.kind == Kind::TransitionState
+            && p.imaginary_frequency.is_none()
+        {
+            warnings.push(
+                Diagnostic::warning(p.id_span.clone(), format!("transition state '{}' has no imaginary_frequency: no tunnelling correction for it", p.id))
+                    .with_help(format!("add it in cm⁻¹, e.g. {} = {{ g = 20.0, imaginary_frequency = 1250 }}", p.id)),
+            );
+        }
+        out.push(PointExtras {
+            imaginary_frequency: p.imaginary_frequency,
+            kappa: p.kappa.unwrap_or(1.0),
+            species: p.species.unwrap_or(1),
+            with,
+        });
+    }
+    out
+}
