@@ -183,10 +183,21 @@ fn table(r: &AnalysisReport, decimals: usize) -> String {
         ));
         let mut products: Vec<(&String, &f64)> = sel.products.iter().collect();
         products.sort_by(|a, b| b.1.total_cmp(a.1));
-        let shares: Vec<String> = products
+        // A long tail of minor products is summarised, not listed.
+        const SHOWN: usize = 6;
+        let mut shares: Vec<String> = products
             .iter()
+            .take(SHOWN)
             .map(|(id, f)| format!("{id} {:.1} %", *f * 100.0))
             .collect();
+        if products.len() > SHOWN {
+            let rest: f64 = products[SHOWN..].iter().map(|(_, f)| **f).sum();
+            shares.push(format!(
+                "{} more together {:.1} % (all in --json)",
+                products.len() - SHOWN,
+                rest * 100.0
+            ));
+        }
         out.push_str(&format!("  products: {}\n", shares.join(", ")));
         let what = if sel.regime == "intermediate" {
             "effective ΔΔG‡ (RT·ln of the ratio)"

@@ -140,27 +140,37 @@ pub fn selectivity(model: &Model, start: Option<&[PointId]>) -> Option<Selectivi
     // Minimax ("lowest highest point") energy from every pool state to every other,
     // by a Dijkstra-like search over the pool graph; small networks, dense is fine.
     let n = model.points().len();
+    let mut adjacent: Vec<Vec<(PointId, f64)>> = vec![Vec::new(); n];
+    for &(a, b, top) in &pool_edges {
+        adjacent[a].push((b, top));
+        adjacent[b].push((a, top));
+    }
+    // Minimax Dijkstra with a heap: the lowest possible highest point on the
+    // way from `from` to every pool state (∞ where unreachable).
     let bottleneck = |from: PointId| -> Vec<f64> {
+        use std::cmp::Reverse;
+        use std::collections::BinaryHeap;
+        #[derive(PartialEq, PartialOrd)]
+        struct Key(f64);
+        impl Eq for Key {}
+        impl Ord for Key {
+            fn cmp(&self, other: &Self) -> std::cmp::Ordering {
+                self.0.total_cmp(&other.0)
+            }
+        }
         let mut best = vec![f64::INFINITY; n];
-        let mut done = vec![false; n];
         best[from] = g(from);
-        loop {
-            let next = (0..n)
-                .filter(|&i| !done[i] && best[i].is_finite())
-                .min_by(|&a, &b| best[a].total_cmp(&best[b]));
-            let Some(u) = next else { break };
-            done[u] = true;
-            for &(a, b, top) in &pool_edges {
-                let v = if a == u {
-                    b
-                } else if b == u {
-                    a
-                } else {
-                    continue;
-                };
-                let through = best[u].max(top);
+        let mut heap = BinaryHeap::new();
+        heap.push(Reverse((Key(best[from]), from)));
+        while let Some(Reverse((Key(level), u))) = heap.pop() {
+            if level > best[u] {
+                continue;
+            }
+            for &(v, top) in &adjacent[u] {
+                let through = level.max(top);
                 if through < best[v] {
                     best[v] = through;
+                    heap.push(Reverse((Key(through), v)));
                 }
             }
         }
@@ -170,13 +180,22 @@ pub fn selectivity(model: &Model, start: Option<&[PointId]>) -> Option<Selectivi
     let start: Vec<PointId> = match start {
         Some(s) => s.to_vec(),
         None => {
-            let feeders: Vec<PointId> = channels.iter().map(|c| c.from).collect();
-            let candidates: Vec<PointId> = (0..n)
-                .filter(|&p| in_pool(p))
-                .filter(|&p| {
+            // Pool states connected to a feeder: one search per connected part.
+            let mut part = vec![usize::MAX; n];
+            for p in (0..n).filter(|&p| in_pool(p)) {
+                if part[p] == usize::MAX {
                     let reach = bottleneck(p);
-                    feeders.iter().any(|&f| reach[f].is_finite())
-                })
+                    for (q, r) in reach.iter().enumerate() {
+                        if r.is_finite() {
+                            part[q] = p;
+                        }
+                    }
+                }
+            }
+            let fed: std::collections::BTreeSet<usize> =
+                channels.iter().map(|c| part[c.from]).collect();
+            let candidates: Vec<PointId> = (0..n)
+                .filter(|&p| in_pool(p) && fed.contains(&part[p]))
                 .collect();
             let lowest = candidates
                 .into_iter()
