@@ -8,6 +8,7 @@ mod error;
 mod files;
 mod render;
 mod sweep;
+mod watch;
 
 use clap::{Parser, Subcommand};
 use error::{CliError, Exit};
@@ -19,7 +20,8 @@ const SHORT_USAGE: &str = "\
 eyrie — kinetics and reaction-coordinate diagrams from a profile file
 
   eyrie analyze PROFILE.toml          rate constants, half-lives, rate-limiting states
-  eyrie render PROFILE.toml -o fig.svg   the energy diagram
+  eyrie render PROFILE.toml -o fig.pdf   the energy diagram (.svg, .png or .pdf)
+  eyrie watch PROFILE.toml -o fig.svg    redraw it on every save of the profile
   eyrie convert 95:5                  ratio ↔ ee ↔ ΔΔG‡ at 25 °C
 
 More: eyrie --help, eyrie help analyze, docs/profile-format.md";
@@ -50,14 +52,24 @@ enum Command {
         #[command(flatten)]
         conditions: Conditions,
     },
-    /// Draw the reaction-coordinate (free-energy) diagram of a profile.
+    /// Draw the reaction-coordinate (free-energy) diagram of a profile as SVG,
+    /// PNG or PDF, at a journal's column width.
     Render {
         /// The profile file (TOML; see docs/profile-format.md).
         profile: PathBuf,
-        /// Where to write the figure (SVG). Default: the profile's name with .svg,
-        /// in the current folder. The file is replaced only once the figure is complete.
-        #[arg(short, long, value_name = "FILE")]
-        output: Option<PathBuf>,
+        #[command(flatten)]
+        figure: render::FigureOptions,
+        #[command(flatten)]
+        conditions: Conditions,
+    },
+    /// Redraw the diagram every time the profile is saved, and print each path's
+    /// apparent barrier; keep it running beside your editor. While the file has a
+    /// mistake, the error is shown and the last good figure stays. Ctrl-C stops.
+    Watch {
+        /// The profile file (TOML; see docs/profile-format.md).
+        profile: PathBuf,
+        #[command(flatten)]
+        figure: render::FigureOptions,
         #[command(flatten)]
         conditions: Conditions,
     },
@@ -178,9 +190,14 @@ fn run(cli: Cli) -> Result<(), CliError> {
         } => analyze::run(&profile, &conditions, json),
         Command::Render {
             profile,
-            output,
+            figure,
             conditions,
-        } => render::run(&profile, output, &conditions),
+        } => render::run(&profile, &figure, &conditions),
+        Command::Watch {
+            profile,
+            figure,
+            conditions,
+        } => watch::run(&profile, &figure, &conditions),
         Command::Sweep {
             profile,
             from,
