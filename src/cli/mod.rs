@@ -64,7 +64,7 @@ enum Command {
     },
     /// Redraw the diagram every time the profile is saved, and print each path's
     /// apparent barrier; keep it running beside your editor. While the file has a
-    /// mistake, the error is shown and the last good figure stays. Ctrl-C stops.
+    /// mistake, the error is shown and the last good figure stays. Ctrl-C stops it.
     Watch {
         /// The profile file (TOML; see docs/profile-format.md).
         profile: PathBuf,

@@ -47,12 +47,14 @@ impl Format {
     }
 }
 
-/// Page-size presets after the usual two-column journal page.
+/// Page-size presets after the usual two-column journal page. The journal
+/// widths in the help are as their guides for authors give them (from memory:
+/// the help tells users to check their journal's guide).
 #[derive(Debug, Clone, Copy, PartialEq, Eq, clap::ValueEnum)]
 pub(crate) enum Size {
-    /// 85 × 65 mm: one column (ACS 3.25 in ≈ 83 mm; RSC 83 mm; Elsevier 90 mm).
+    /// 85 × 65 mm, one column.
     Single,
-    /// 175 × 100 mm: the full text width (ACS 7 in ≈ 178 mm; RSC 171 mm; Elsevier 190 mm).
+    /// 175 × 100 mm, the full text width.
     Double,
 }
 
