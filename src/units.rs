@@ -251,3 +251,45 @@ impl fmt::Display for Temperature {
         write!(f, "{:.2} K ({:.1} °C)", self.0, self.celsius())
     }
 }
+
+/// Reads a duration as chemists write it: "2 h", "30 min", "45 s", "3 d",
+/// "1.5 days", "250 ms", or a bare number of seconds. `None` unless finite and > 0.
+pub fn parse_duration_s(text: &str) -> Option<f64> {
+    let t = text.trim();
+    let split = t
+        .find(|c: char| c.is_alphabetic() || c == 'µ')
+        .unwrap_or(t.len());
+    let value: f64 = t[..split].trim().parse().ok()?;
+    let factor = match t[split..].trim().to_ascii_lowercase().as_str() {
+        "" | "s" | "sec" | "second" | "seconds" => 1.0,
+        "ms" => 1e-3,
+        "µs" | "us" => 1e-6,
+        "ns" => 1e-9,
+        "min" | "mins" | "minute" | "minutes" => 60.0,
+        "h" | "hr" | "hrs" | "hour" | "hours" => 3600.0,
+        "d" | "day" | "days" => 86_400.0,
+        "week" | "weeks" => 7.0 * 86_400.0,
+        "y" | "yr" | "year" | "years" => 365.25 * 86_400.0,
+        _ => return None,
+    };
+    let seconds = value * factor;
+    (seconds.is_finite() && seconds > 0.0).then_some(seconds)
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn durations_in_the_forms_chemists_write() {
+        // definitions: 1 min = 60 s, 1 h = 3600 s, 1 d = 86 400 s.
+        assert_eq!(parse_duration_s("2 h"), Some(7200.0));
+        assert_eq!(parse_duration_s("30 min"), Some(1800.0));
+        assert_eq!(parse_duration_s("45"), Some(45.0));
+        assert_eq!(parse_duration_s("1.5 days"), Some(129_600.0));
+        assert_eq!(parse_duration_s("250 ms"), Some(0.25));
+        for bad in ["", "soon", "-2 h", "0 s", "2 fortnights", "inf"] {
+            assert_eq!(parse_duration_s(bad), None, "{bad}");
+        }
+    }
+}

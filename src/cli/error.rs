@@ -3,12 +3,11 @@
 use std::path::PathBuf;
 
 /// Documented exit codes (README, "Exit codes").
-#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+#[derive(Debug, Clone, Copy, PartialEq, Eq, PartialOrd, Ord)]
 pub enum Exit {
     /// Everything ran and every check agreed.
     Success = 0,
-    /// A check ran and disagreed with an observation (reserved for `check`).
-    #[allow(dead_code)]
+    /// A check ran and disagreed with an observation.
     Disagreed = 1,
     /// Invalid input file or invalid command-line usage.
     Invalid = 2,
@@ -28,6 +27,10 @@ pub enum CliError {
     /// The command line asks for something eyrie cannot do.
     #[error("{0}")]
     Usage(String),
+    /// The command ran and printed its own report; exit with this code
+    /// (e.g. `check` found a disagreement, or a batch met a bad file).
+    #[error("")]
+    Finished(Exit),
     /// Reading or writing a file failed.
     #[error("cannot {action} '{}': {source}", path.display())]
     Io {
@@ -46,6 +49,17 @@ impl CliError {
         match self {
             CliError::Invalid { .. } | CliError::Usage(_) => Exit::Invalid,
             CliError::Io { .. } => Exit::Io,
+            CliError::Finished(code) => *code,
+        }
+    }
+
+    /// Prints the error once, in the form users see: rendered diagnostics as
+    /// they are, anything else as one `error:` line; nothing for `Finished`.
+    pub fn report(&self) {
+        match self {
+            CliError::Invalid { rendered } => eprint!("{rendered}"),
+            CliError::Finished(_) => {}
+            other => eprintln!("error: {other}"),
         }
     }
 }

@@ -67,3 +67,28 @@ pub fn write_atomic(path: &Path, bytes: &[u8]) -> Result<(), CliError> {
     }
     Ok(())
 }
+
+/// The profiles named on the command line: files as given, folders replaced by
+/// the `*.toml` files directly inside them, in name order (so runs are
+/// reproducible).
+pub fn expand(inputs: &[std::path::PathBuf]) -> Result<Vec<std::path::PathBuf>, CliError> {
+    let mut out = Vec::new();
+    for input in inputs {
+        if input.is_dir() {
+            let entries = std::fs::read_dir(input).map_err(|source| CliError::Io {
+                action: "read",
+                path: input.clone(),
+                source,
+            })?;
+            let mut found: Vec<_> = entries
+                .filter_map(|e| e.ok().map(|e| e.path()))
+                .filter(|p| p.is_file() && p.extension().is_some_and(|e| e == "toml"))
+                .collect();
+            found.sort();
+            out.extend(found);
+        } else {
+            out.push(input.clone());
+        }
+    }
+    Ok(out)
+}

@@ -3,6 +3,7 @@
 //! exit codes.
 
 mod analyze;
+mod check;
 mod convert;
 mod error;
 mod files;
@@ -95,6 +96,18 @@ enum Command {
         #[arg(long)]
         json: bool,
     },
+    /// Compare the measurements stated in profiles ([[observed]]: ratios, ee,
+    /// rates, half-lives, TOFs) with what the barriers predict. Exits 1 when any
+    /// disagrees beyond its tolerance, 0 when all agree; takes files or folders.
+    Check {
+        /// Profile files, or folders of *.toml profiles.
+        #[arg(required = true)]
+        profiles: Vec<PathBuf>,
+        /// Print machine-readable JSON: one entry per observation (file, kind,
+        /// predicted, observed, energy_error, consistent, …).
+        #[arg(long)]
+        json: bool,
+    },
     /// Convert a selectivity between its three forms at one temperature: a
     /// product ratio (95:5 or 19), an ee or de (90%ee, 80%de), or a free-energy
     /// difference ΔΔG‡ (1.8 kcal/mol, 7 kJ/mol).
@@ -172,10 +185,7 @@ pub fn main() -> ExitCode {
     match run(cli) {
         Ok(()) => ExitCode::from(Exit::Success as u8),
         Err(e) => {
-            match &e {
-                CliError::Invalid { rendered } => eprint!("{rendered}"),
-                other => eprintln!("error: {other}"),
-            }
+            e.report();
             ExitCode::from(e.exit() as u8)
         }
     }
@@ -205,6 +215,10 @@ fn run(cli: Cli) -> Result<(), CliError> {
             steps,
             json,
         } => sweep::run(&profile, from, to, steps, json),
+        Command::Check { profiles, json } => match check::run(&profiles, json)? {
+            Exit::Success => Ok(()),
+            code => Err(CliError::Finished(code)),
+        },
         Command::Convert {
             value,
             json,

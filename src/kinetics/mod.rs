@@ -1,6 +1,7 @@
 //! Pure kinetics over a validated model: never prints, never writes files.
 //!
 //! - [`cycle`]: a `cycle = true` path as intermediates and TSs for the energetic span model.
+//! - [`check`]: each measurement beside its prediction, the error as an energy.
 //! - [`corrections`]: tunnelling (Wigner, Bell), standard state, pseudo-first order.
 //! - [`eyring`]: rate constants and half-lives from barriers, in log space.
 //! - [`analysis`]: every step's barriers and rate constants in both
@@ -13,6 +14,7 @@
 //! - [`winstein_holness`]: exact solution of A ⇌ B, A → C, B → D.
 
 pub mod analysis;
+pub mod check;
 pub mod corrections;
 pub mod cycle;
 pub mod eyring;

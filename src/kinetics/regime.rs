@@ -448,6 +448,7 @@ mod tests {
             extras: vec![],
             tunnelling: Default::default(),
             standard_state: None,
+            observations: vec![],
         }
     }
 

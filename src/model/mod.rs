@@ -6,6 +6,10 @@
 //! unique, every path alternates minima and transition states correctly,
 //! energies are finite and already shifted so the `zero` state is 0.
 
+mod observed;
+
+pub use observed::{ObservedKind, Observation, Target};
+
 use crate::units::{EnergyUnit, Temperature};
 
 /// Index of a stationary point in [`Model::points`].
@@ -145,6 +149,8 @@ pub struct Model {
     /// The pressure standard state the energies were computed at, when they are
     /// to be converted to 1 mol/L.
     pub(crate) standard_state: Option<crate::kinetics::corrections::PressureStandard>,
+    /// Measurements stated in the file (`[[observed]]`).
+    pub(crate) observations: Vec<Observation>,
 }
 
 impl Model {
@@ -168,6 +174,9 @@ impl Model {
         let from = self.unit;
         for p in &mut self.points {
             p.g = from.convert(p.g, unit);
+        }
+        for o in &mut self.observations {
+            o.tolerance = from.convert(o.tolerance, unit);
         }
         for t in &mut self.thermo {
             *t = match *t {
@@ -197,6 +206,11 @@ impl Model {
     /// The extras of one point (defaults when the model has none).
     pub fn extras(&self, id: PointId) -> PointExtras {
         self.extras.get(id).cloned().unwrap_or_default()
+    }
+
+    /// The measurements stated in the file.
+    pub fn observations(&self) -> &[Observation] {
+        &self.observations
     }
 
     /// The tunnelling correction in use.

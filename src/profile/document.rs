@@ -17,7 +17,7 @@ use crate::units::{EnergyUnit, Temperature};
 /// reference temperature of tabulated free energies.
 pub const DEFAULT_TEMPERATURE_K: f64 = 298.15;
 
-const TOP_KEYS: [&str; 11] = [
+const TOP_KEYS: [&str; 12] = [
     "title",
     "temperature",
     "unit",
@@ -29,6 +29,7 @@ const TOP_KEYS: [&str; 11] = [
     "states",
     "ts",
     "path",
+    "observed",
 ];
 const STATE_KEYS: [&str; 7] = ["g", "h", "s", "label", "product", "species", "with"];
 const TS_KEYS: [&str; 7] = [
@@ -102,6 +103,8 @@ pub(crate) struct RawProfile {
     pub standard_state: Option<crate::kinetics::corrections::PressureStandard>,
     /// `[coreactants]`: name → concentration in mol/L, with where each is written.
     pub coreactants: Vec<(Located, f64)>,
+    /// `[[observed]]`: measurements, not yet resolved.
+    pub observed: Vec<crate::profile::observed::RawObservation>,
     /// Where `[states]` is written, for file-wide warnings.
     pub states_span: Option<Range<usize>>,
     pub points: Vec<RawPoint>,
@@ -136,6 +139,7 @@ pub(crate) fn read(root: &DeTable<'_>, errors: &mut Vec<Diagnostic>) -> RawProfi
             "tunnelling" => raw.tunnelling = read_tunnelling(value, errors),
             "standard_state" => raw.standard_state = read_standard_state(value, errors),
             "coreactants" => raw.coreactants = read_coreactants(value, errors),
+            "observed" => raw.observed = crate::profile::observed::read(value, errors),
             "states" => {
                 raw.states_span = Some(value.span());
                 read_points(value, Kind::Minimum, &mut raw.points, errors);

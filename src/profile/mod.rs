@@ -15,6 +15,7 @@ mod document;
 mod energy;
 mod fields;
 mod network;
+mod observed;
 mod suggest;
 mod syntax;
 
@@ -71,6 +72,13 @@ pub fn parse(text: &str) -> Result<Parsed, Vec<Diagnostic>> {
     let (paths, paths_ok) = network::resolve_paths(&points, &raw.paths, &mut errors);
     let zero = energy::resolve_zero(raw.zero.as_ref(), &points, &mut errors);
     let start = network::resolve_start(raw.start.as_deref().unwrap_or(&[]), &points, &mut errors);
+    let observations = observed::resolve(
+        std::mem::take(&mut raw.observed),
+        &points,
+        &paths,
+        raw.unit.as_ref().map(|(u, _)| *u),
+        &mut errors,
+    );
     let extras = network::resolve_extras(
         &points,
         &raw.coreactants,
@@ -177,6 +185,7 @@ pub fn parse(text: &str) -> Result<Parsed, Vec<Diagnostic>> {
         extras,
         tunnelling: raw.tunnelling.unwrap_or_default(),
         standard_state: raw.standard_state,
+        observations,
     };
     let mut model = model;
     model.refresh();
