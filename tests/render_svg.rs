@@ -46,6 +46,7 @@ fn demo() -> DiagramSpec {
             path("stepwise", &[0, 5, 1, 6, 2]),
             path("fragmentation", &[1, 7, 3]),
         ],
+        ..Default::default()
     }
 }
 
@@ -64,6 +65,7 @@ fn cycle() -> DiagramSpec {
             point("release", "[M] + product", Minimum, -61.0),
         ],
         paths: vec![path("turnover", &[0, 1, 2, 3, 4, 5])],
+        ..Default::default()
     }
 }
 
@@ -87,6 +89,7 @@ fn conformers() -> DiagramSpec {
             path("cis", &[0, 5, 2]),
             path("trans", &[1, 6, 3]),
         ],
+        ..Default::default()
     }
 }
 
@@ -118,6 +121,7 @@ fn dense() -> DiagramSpec {
             path("branch-b", &[4, 19, 18, 21, 20]),
             path("branch-c", &[10, 23, 22, 24, 24]),
         ],
+        ..Default::default()
     }
 }
 
@@ -132,6 +136,7 @@ fn hostile() -> DiagramSpec {
             point("d'e", "\"quoted\" 'single'", Minimum, -3.0),
         ],
         paths: vec![path("p<1>", &[0, 1, 2]), path("p\"2\" & 'x'", &[0, 2])],
+        ..Default::default()
     }
 }
 
@@ -259,13 +264,17 @@ fn no_two_texts_overlap_and_all_stay_on_the_page() {
         let boxes = scene.text_boxes();
         let texts: Vec<_> = scene.texts().collect();
         if let Some(&(i, j)) = scene.overlapping_texts().first() {
-            panic!("{name}: {:?} overlaps {:?}", texts[i].lines, texts[j].lines);
+            panic!(
+                "{name}: {:?} overlaps {:?}",
+                texts[i].plain_lines(),
+                texts[j].plain_lines()
+            );
         }
         for (b, t) in boxes.iter().zip(&texts) {
             assert!(
                 b.x0 >= 0.0 && b.y0 >= 0.0 && b.x1 <= scene.width_mm && b.y1 <= scene.height_mm,
                 "{name}: {:?} leaves the page: {b:?}",
-                t.lines
+                t.plain_lines()
             );
         }
     }
@@ -283,7 +292,7 @@ fn texts_do_not_cover_bars() {
                 let (x0, y) = bar.points[0];
                 let x1 = bar.points[1].0;
                 let inside = y > b.y0 && y < b.y1 && x1 > b.x0 && x0 < b.x1;
-                assert!(!inside, "{name}: {:?} covers a bar", t.lines);
+                assert!(!inside, "{name}: {:?} covers a bar", t.plain_lines());
             }
         }
     }
@@ -324,18 +333,18 @@ fn legend_only_with_several_paths_and_title_is_metadata() {
     let names: Vec<_> = three
         .texts()
         .filter(|t| t.role == Role::LegendText)
-        .map(|t| t.lines[0].clone())
+        .map(|t| t.plain_lines()[0].clone())
         .collect();
     assert_eq!(names, vec!["concerted", "stepwise", "fragmentation"]);
     assert_eq!(
         three.title.as_deref(),
         Some("Concerted versus stepwise rearrangement")
     );
-    assert!(
-        !three
-            .texts()
-            .any(|t| t.lines.iter().any(|l| l.contains("Concerted versus")))
-    );
+    assert!(!three.texts().any(|t| {
+        t.plain_lines()
+            .iter()
+            .any(|l| l.contains("Concerted versus"))
+    }));
 }
 
 #[test]
@@ -347,12 +356,14 @@ fn degenerate_specs_still_give_a_valid_figure() {
             axis_label: String::new(),
             points: vec![],
             paths: vec![],
+            ..Default::default()
         },
         DiagramSpec {
             title: None,
             axis_label: "ΔG".into(),
             points: vec![point("only", "lonely", Minimum, 3.0)],
             paths: vec![path("p", &[0])],
+            ..Default::default()
         },
         DiagramSpec {
             title: None,
@@ -361,6 +372,7 @@ fn degenerate_specs_still_give_a_valid_figure() {
                 .map(|i| point(&format!("s{i}"), "same", Minimum, 1.0))
                 .collect(),
             paths: vec![path("flat", &[0, 1, 2, 3, 4]), path("empty", &[])],
+            ..Default::default()
         },
         DiagramSpec {
             title: None,
@@ -372,6 +384,7 @@ fn degenerate_specs_still_give_a_valid_figure() {
                 point("loose", "on no path", Minimum, 2.0),
             ],
             paths: vec![path("p", &[0, 1, 2, 99]), path("cycle", &[0, 2, 0])],
+            ..Default::default()
         },
     ];
     for spec in cases {

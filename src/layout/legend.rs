@@ -3,7 +3,7 @@
 //! covers no text, no bar and as few connectors as possible.
 
 use super::place::Placer;
-use super::scene::{Anchor, Colour, Item, Line, Rect, Role, Tag, Text};
+use super::scene::{Anchor, Colour, Item, Line, Rect, Role, Run, Tag, Text};
 use super::{DiagramSpec, Style, text};
 
 /// One legend row.
@@ -79,7 +79,7 @@ fn entry_items(e: &Entry, style: &Style, x: f64, y: f64) -> [Item; 2] {
         Item::Text(Text {
             x: x + SAMPLE + GAP,
             y: baseline,
-            lines: vec![e.name.clone()],
+            lines: vec![vec![Run::plain(e.name.clone())]],
             size_pt: style.tick_pt,
             anchor: Anchor::Start,
             colour: style.ink,

@@ -5,16 +5,24 @@
 //! Layout never computes kinetics and never reads a profile; the renderer
 //! never sees anything but the scene.
 
+mod annotate;
 mod axis;
 mod columns;
+pub mod connect;
 mod legend;
+pub mod markup;
 mod place;
+pub mod rich;
 mod scene;
 mod style;
 pub mod text;
+mod vertical;
 
-pub use scene::{Anchor, Colour, Item, Line, Rect, Role, Scene, Tag, Text};
-pub use style::{OKABE_ITO, Style};
+pub use connect::Connector;
+pub use scene::{
+    Anchor, Colour, Curve, Item, Line, Rect, RichLine, Role, Run, Scene, Script, Tag, Text,
+};
+pub use style::{OKABE_ITO, PRESETS, Style};
 
 use crate::model::Kind;
 use place::{Placer, Request, Side};
@@ -24,7 +32,7 @@ use place::{Placer, Request, Side};
 pub struct ShownPoint {
     /// The file id; tags the scene items drawn for this point.
     pub id: String,
-    /// Text under the bar.
+    /// Text under the bar, in the label markup ([`markup`]).
     pub label: String,
     /// Minimum or TS (drawn alike for now; kept for styling).
     pub kind: Kind,
@@ -43,8 +51,52 @@ pub struct ShownPath {
     pub via: Vec<usize>,
 }
 
-/// Everything the diagram shows, computed and formatted before layout.
+/// A computed number drawn onto the diagram; indices point into
+/// [`DiagramSpec::points`], texts are formatted and may use the label markup.
 #[derive(Debug, Clone, PartialEq)]
+pub enum Annotation {
+    /// A double-headed arrow from minimum `from` up to TS `to`, e.g. ΔG‡.
+    Barrier {
+        /// The minimum the barrier is measured from.
+        from: usize,
+        /// The transition state.
+        to: usize,
+        /// Lines beside the arrow.
+        lines: Vec<String>,
+    },
+    /// A bracket between two competing TSs, e.g. ΔΔG‡ and the predicted ratio.
+    Difference {
+        /// One TS.
+        a: usize,
+        /// The other TS.
+        b: usize,
+        /// Lines beside the bracket.
+        lines: Vec<String>,
+    },
+    /// The energetic span of a cycle: TDI up to TDTS, with δE and the TOF.
+    Span {
+        /// TOF-determining intermediate.
+        tdi: usize,
+        /// TOF-determining transition state.
+        tdts: usize,
+        /// Lines beside the arrow.
+        lines: Vec<String>,
+    },
+}
+
+impl Annotation {
+    /// The text lines of the annotation.
+    pub fn lines(&self) -> &[String] {
+        match self {
+            Annotation::Barrier { lines, .. }
+            | Annotation::Difference { lines, .. }
+            | Annotation::Span { lines, .. } => lines,
+        }
+    }
+}
+
+/// Everything the diagram shows, computed and formatted before layout.
+#[derive(Debug, Clone, PartialEq, Default)]
 pub struct DiagramSpec {
     /// Figure title, if any.
     pub title: Option<String>,
@@ -54,16 +106,21 @@ pub struct DiagramSpec {
     pub points: Vec<ShownPoint>,
     /// Paths in drawing order.
     pub paths: Vec<ShownPath>,
+    /// Annotations of computed numbers, in drawing order.
+    pub annotations: Vec<Annotation>,
+    /// Points to emphasise (the rate-determining states).
+    pub highlight: Vec<usize>,
 }
 
 /// Lays out `spec` on a page of `style`'s size.
 ///
-/// Steps: energy axis and its nice ticks → columns from the path graph →
-/// bars and connectors → collision-checked placement of values and labels →
-/// a legend where it covers nothing. If no such spot is left for the legend,
-/// the page is laid out again with a strip reserved for it at the top.
-/// Never panics: non-finite energies and out-of-range path indices are
-/// skipped, and an empty spec gives an empty axis.
+/// Steps: energy scale (nice ticks, optional axis break) → columns from the
+/// path graph → bars, connectors and annotation marks → collision-checked
+/// placement of values, labels and annotation texts → a legend where it
+/// covers nothing. If no such spot is left for the legend, the page is laid
+/// out again with a strip reserved for it at the top.
+/// Never panics: non-finite energies and out-of-range indices are skipped,
+/// and an empty spec gives an empty axis.
 ///
 /// When some text finds no free spot at the style's sizes, the whole figure
 /// is laid out again with smaller type (never below `min_text_pt`), so a
@@ -72,7 +129,7 @@ pub fn layout(spec: &DiagramSpec, style: &Style) -> Scene {
     let mut last = None;
     for scale in [1.0, 0.9, 0.8, 0.7] {
         let mut s = style.clone();
-        for size in [&mut s.label_pt, &mut s.value_pt] {
+        for size in [&mut s.label_pt, &mut s.value_pt, &mut s.annotation_text_pt] {
             *size = (*size * scale).max(style.min_text_pt.min(*size));
         }
         let (mut scene, mut fit) = build(spec, &s, 0.0);
@@ -90,10 +147,47 @@ pub fn layout(spec: &DiagramSpec, style: &Style) -> Scene {
 
 /// What fitted in one pass.
 struct Fit {
-    /// Every value and label found a free spot.
+    /// Every value, label and annotation text found a free spot.
     texts: bool,
     /// The legend (if needed) found a free spot.
     legend: bool,
+}
+
+/// A one-line upright text at a fixed place (axis texts).
+#[allow(clippy::too_many_arguments)]
+fn fixed_text(
+    x: f64,
+    y: f64,
+    s: &str,
+    size_pt: f64,
+    anchor: Anchor,
+    rotation: f64,
+    role: Role,
+    style: &Style,
+) -> Text {
+    Text {
+        x,
+        y,
+        lines: vec![vec![Run::plain(s)]],
+        size_pt,
+        anchor,
+        colour: style.ink,
+        rotation,
+        role,
+        tag: None,
+    }
+}
+
+/// A straight untagged line.
+fn plain_line(points: Vec<(f64, f64)>, colour: Colour, width_pt: f64, role: Role) -> Item {
+    Item::Line(Line {
+        points,
+        colour,
+        width_pt,
+        dash: None,
+        role,
+        tag: None,
+    })
 }
 
 /// One laid-out pass.
@@ -123,35 +217,13 @@ fn build(spec: &DiagramSpec, style: &Style, legend_strip: f64) -> (Scene, Fit) {
         }
     }
 
-    // Vertical scale.
     let values: Vec<f64> = (0..n)
         .filter(|&i| drawable[i])
         .map(|i| spec.points[i].value)
         .collect();
-    let lo = values.iter().copied().fold(f64::INFINITY, f64::min);
-    let hi = values.iter().copied().fold(f64::NEG_INFINITY, f64::max);
-    let ticks = if values.is_empty() {
-        axis::nice_ticks(0.0, 0.0)
-    } else {
-        axis::nice_ticks(lo, hi)
-    };
-    let tick_texts: Vec<String> = ticks
-        .values
-        .iter()
-        .map(|&t| crate::format::energy(t, ticks.decimals, true))
-        .collect();
-
     let m = style.margin_mm;
     let em = |pt: f64| pt * text::PT_MM;
     let text_h = |pt: f64| em(pt) * (text::ASCENT + text::DESCENT);
-    let tick_w = tick_texts
-        .iter()
-        .map(|t| text::width_mm(t, style.tick_pt))
-        .fold(0.0, f64::max);
-    let tick_len = 1.0;
-    let axis_x = m + text_h(style.axis_label_pt) + 1.0 + tick_w + 0.6 + tick_len;
-    let plot_x0 = axis_x + 1.0;
-    let plot_x1 = (style.width_mm - m).max(plot_x0 + 1.0);
     let caption_h = match &style.x_caption {
         Some(c) if !c.is_empty() => text_h(style.tick_pt) + 0.5,
         _ => 0.0,
@@ -161,8 +233,21 @@ fn build(spec: &DiagramSpec, style: &Style, legend_strip: f64) -> (Scene, Fit) {
         m + legend_strip + text_h(style.value_pt) + text::LINE_HEIGHT * em(style.label_pt) + 1.0;
     let bottom_y =
         (style.height_mm - m - caption_h - text_h(style.label_pt) - 0.8).max(top_y + 1.0);
-    let (t0, t1) = (ticks.values[0], *ticks.values.last().unwrap());
-    let y_of = |v: f64| bottom_y - (v - t0) / (t1 - t0) * (bottom_y - top_y);
+    let scale = vertical::Scale::new(&values, style.axis_break, top_y, bottom_y);
+    let tick_values: Vec<f64> = scale.ticks().collect();
+    let tick_texts: Vec<String> = tick_values
+        .iter()
+        .map(|&t| crate::format::energy(t, scale.decimals, true))
+        .collect();
+    let tick_w = tick_texts
+        .iter()
+        .map(|t| text::width_mm(t, style.tick_pt))
+        .fold(0.0, f64::max);
+    let tick_len = 1.0;
+    let axis_x = m + text_h(style.axis_label_pt) + 1.0 + tick_w + 0.6 + tick_len;
+    let plot_x0 = axis_x + 1.0;
+    let plot_x1 = (style.width_mm - m).max(plot_x0 + 1.0);
+    let y_of = |v: f64| scale.y(v);
 
     // Horizontal positions.
     let mut cols = columns::assign(n, &paths.iter().map(|(_, v)| v.clone()).collect::<Vec<_>>());
@@ -241,63 +326,78 @@ fn build(spec: &DiagramSpec, style: &Style, legend_strip: f64) -> (Scene, Fit) {
     }
 
     let mut items: Vec<Item> = Vec::new();
-    // Axis.
-    items.push(Item::Line(Line {
-        points: vec![(axis_x, y_of(t0)), (axis_x, y_of(t1))],
-        colour: style.ink,
-        width_pt: style.axis_pt,
-        dash: None,
-        role: Role::Axis,
-        tag: None,
-    }));
+    // Zero line, under everything.
+    if style.zero_line && !values.is_empty() && scale.shows(0.0) {
+        items.push(plain_line(
+            vec![(plot_x0, y_of(0.0)), (plot_x1, y_of(0.0))],
+            style.zero_colour,
+            style.axis_pt * 0.6,
+            Role::ZeroLine,
+        ));
+    }
+    // Axis: one stroke per band, a break mark between bands.
+    for (y0, y1) in scale.band_spans() {
+        items.push(plain_line(
+            vec![(axis_x, y0), (axis_x, y1)],
+            style.ink,
+            style.axis_pt,
+            Role::Axis,
+        ));
+    }
+    for yb in scale.breaks() {
+        // Two parallel slanted strokes across the axis, the cut between them.
+        for dy in [-0.6, 0.6] {
+            items.push(plain_line(
+                vec![(axis_x - 1.0, yb + dy + 0.5), (axis_x + 1.0, yb + dy - 0.5)],
+                style.ink,
+                style.axis_pt,
+                Role::AxisBreak,
+            ));
+        }
+    }
     let mut fixed_texts: Vec<Text> = Vec::new();
-    for (t, label) in ticks.values.iter().zip(&tick_texts) {
+    for (t, label) in tick_values.iter().zip(&tick_texts) {
         let ty = y_of(*t);
-        items.push(Item::Line(Line {
-            points: vec![(axis_x - tick_len, ty), (axis_x, ty)],
-            colour: style.ink,
-            width_pt: style.axis_pt,
-            dash: None,
-            role: Role::Tick,
-            tag: None,
-        }));
-        fixed_texts.push(Text {
-            x: axis_x - tick_len - 0.6,
-            y: ty + (text::ASCENT - text::DESCENT) / 2.0 * em(style.tick_pt),
-            lines: vec![label.clone()],
-            size_pt: style.tick_pt,
-            anchor: Anchor::End,
-            colour: style.ink,
-            rotation: 0.0,
-            role: Role::TickLabel,
-            tag: None,
-        });
+        items.push(plain_line(
+            vec![(axis_x - tick_len, ty), (axis_x, ty)],
+            style.ink,
+            style.axis_pt,
+            Role::Tick,
+        ));
+        fixed_texts.push(fixed_text(
+            axis_x - tick_len - 0.6,
+            ty + (text::ASCENT - text::DESCENT) / 2.0 * em(style.tick_pt),
+            label,
+            style.tick_pt,
+            Anchor::End,
+            0.0,
+            Role::TickLabel,
+            style,
+        ));
     }
     if !spec.axis_label.is_empty() {
-        fixed_texts.push(Text {
-            x: m + text::ASCENT * em(style.axis_label_pt),
-            y: (y_of(t0) + y_of(t1)) / 2.0,
-            lines: vec![spec.axis_label.clone()],
-            size_pt: style.axis_label_pt,
-            anchor: Anchor::Middle,
-            colour: style.ink,
-            rotation: -90.0,
-            role: Role::AxisLabel,
-            tag: None,
-        });
+        fixed_texts.push(fixed_text(
+            m + text::ASCENT * em(style.axis_label_pt),
+            (scale.top + scale.bottom) / 2.0,
+            &spec.axis_label,
+            style.axis_label_pt,
+            Anchor::Middle,
+            -90.0,
+            Role::AxisLabel,
+            style,
+        ));
     }
     if let Some(caption) = style.x_caption.as_ref().filter(|c| !c.is_empty()) {
-        fixed_texts.push(Text {
-            x: (plot_x0 + plot_x1) / 2.0,
-            y: style.height_mm - m - text::DESCENT * em(style.tick_pt),
-            lines: vec![caption.clone()],
-            size_pt: style.tick_pt,
-            anchor: Anchor::Middle,
-            colour: style.ink,
-            rotation: 0.0,
-            role: Role::Caption,
-            tag: None,
-        });
+        fixed_texts.push(fixed_text(
+            (plot_x0 + plot_x1) / 2.0,
+            style.height_mm - m - text::DESCENT * em(style.tick_pt),
+            caption,
+            style.tick_pt,
+            Anchor::Middle,
+            0.0,
+            Role::Caption,
+            style,
+        ));
     }
 
     // Connectors: each unordered pair of points once, in its first path's style.
@@ -316,19 +416,37 @@ fn build(spec: &DiagramSpec, style: &Style, legend_strip: f64) -> (Scene, Fit) {
             } else {
                 ((x[a] - bar_w[a] / 2.0, y[a]), (x[b] + bar_w[b] / 2.0, y[b]))
             };
-            segments.push((from, to));
-            items.push(Item::Line(Line {
-                points: vec![from, to],
-                colour: style.path_colour(*pi),
-                width_pt: style.connector_pt,
-                dash: style.path_dash(*pi),
-                role: Role::Connector,
-                tag: Some(Tag::Path(spec.paths[*pi].name.clone())),
-            }));
+            let tag = Some(Tag::Path(spec.paths[*pi].name.clone()));
+            match style.connector {
+                Connector::Straight => {
+                    segments.push((from, to));
+                    items.push(Item::Line(Line {
+                        points: vec![from, to],
+                        colour: style.path_colour(*pi),
+                        width_pt: style.connector_pt,
+                        dash: style.path_dash(*pi),
+                        role: Role::Connector,
+                        tag,
+                    }));
+                }
+                Connector::Smooth => {
+                    let c = connect::smooth(from, to);
+                    segments.extend(connect::flatten(from, &c, 12));
+                    items.push(Item::Curve(Curve {
+                        start: from,
+                        segments: vec![c],
+                        colour: style.path_colour(*pi),
+                        width_pt: style.connector_pt,
+                        dash: style.path_dash(*pi),
+                        role: Role::Connector,
+                        tag,
+                    }));
+                }
+            }
         }
     }
 
-    // Bars.
+    // Bars, with a band behind the highlighted ones.
     let half_t = style.bar_pt * text::PT_MM / 2.0;
     let mut placer = Placer {
         bounds: Rect {
@@ -345,6 +463,23 @@ fn build(spec: &DiagramSpec, style: &Style, legend_strip: f64) -> (Scene, Fit) {
         if !drawable[i] {
             continue;
         }
+        let tag = Some(Tag::Point(spec.points[i].id.clone()));
+        let mut half = half_t;
+        if spec.highlight.contains(&i) {
+            let pad = 0.5;
+            half = half_t * 2.2;
+            bars.push(Item::Line(Line {
+                points: vec![
+                    (x[i] - bar_w[i] / 2.0 - pad, y[i]),
+                    (x[i] + bar_w[i] / 2.0 + pad, y[i]),
+                ],
+                colour: style.highlight,
+                width_pt: style.bar_pt * 2.2,
+                dash: None,
+                role: Role::Highlight,
+                tag: tag.clone(),
+            }));
+        }
         let c = colour[i].map_or(style.ink, |p| style.path_colour(p));
         bars.push(Item::Line(Line {
             points: vec![(x[i] - bar_w[i] / 2.0, y[i]), (x[i] + bar_w[i] / 2.0, y[i])],
@@ -352,17 +487,41 @@ fn build(spec: &DiagramSpec, style: &Style, legend_strip: f64) -> (Scene, Fit) {
             width_pt: style.bar_pt,
             dash: None,
             role: Role::Bar,
-            tag: Some(Tag::Point(spec.points[i].id.clone())),
+            tag,
         }));
         placer.block(Rect {
             x0: x[i] - bar_w[i] / 2.0,
-            y0: y[i] - half_t,
+            y0: y[i] - half,
             x1: x[i] + bar_w[i] / 2.0,
-            y1: y[i] + half_t,
+            y1: y[i] + half,
         });
     }
 
-    // Values first (short, and the number a reader looks for), then labels.
+    // Annotation marks block text before any text is placed.
+    let ids: Vec<String> = spec.points.iter().map(|p| p.id.clone()).collect();
+    let geometry = annotate::Geometry {
+        x: &x,
+        y: &y,
+        bar_w: &bar_w,
+        ids: &ids,
+        drawable: &drawable,
+        plot: (plot_x0, plot_x1),
+    };
+    let mut marks = Vec::new();
+    let mut annotation_items = Vec::new();
+    for a in &spec.annotations {
+        if let Some(d) = annotate::draw(a, &geometry, style) {
+            for r in &d.hard {
+                placer.block(*r);
+            }
+            placer.segments.extend(d.soft.iter().copied());
+            annotation_items.extend(d.items);
+            marks.push((a, d.mark));
+        }
+    }
+
+    // Values first (short, and the number a reader looks for), then labels,
+    // then annotation texts beside their marks.
     let mut by_x: Vec<usize> = (0..n).filter(|&i| drawable[i]).collect();
     by_x.sort_by(|&a, &b| {
         x[a].total_cmp(&x[b])
@@ -372,14 +531,66 @@ fn build(spec: &DiagramSpec, style: &Style, legend_strip: f64) -> (Scene, Fit) {
     let mut leaders = Vec::new();
     let mut placed_texts = Vec::new();
     let mut texts_fit = true;
+    let mut settle = |placer: &mut Placer,
+                      cands: &[place::Candidate],
+                      origin: (f64, f64),
+                      bar: Option<(f64, f64, f64)>,
+                      role: Role,
+                      tag: Option<Tag>| {
+        let chosen = match placer.choose(cands, origin) {
+            Some(c) => c.clone(),
+            None => {
+                texts_fit = false;
+                match cands.first() {
+                    Some(c) => c.clone(),
+                    None => return,
+                }
+            }
+        };
+        let r = chosen.bbox();
+        placer.block(r);
+        // A text that no longer sits over its bar, or sits more than two
+        // lines away from it, gets a leader line back to its owner.
+        let far = 2.0 * text::LINE_HEIGHT * em(chosen.size_pt) + 1.0;
+        let strays = match bar {
+            Some((bx0, bx1, by)) => {
+                let vertical_gap = (r.y0 - by).max(by - r.y1).max(0.0);
+                r.x1 < bx0 || r.x0 > bx1 || vertical_gap > far
+            }
+            None => false,
+        };
+        if chosen.leader || strays {
+            let to = r.nearest(origin.0, origin.1);
+            placer.segments.push((origin, to));
+            leaders.push(Item::Line(Line {
+                points: vec![origin, to],
+                colour: style.leader,
+                width_pt: style.connector_pt * 0.6,
+                dash: None,
+                role: Role::Leader,
+                tag: tag.clone(),
+            }));
+        }
+        placed_texts.push(Item::Text(Text {
+            x: chosen.x,
+            y: chosen.y,
+            lines: chosen.lines,
+            size_pt: chosen.size_pt,
+            anchor: chosen.anchor,
+            colour: style.ink,
+            rotation: 0.0,
+            role,
+            tag,
+        }));
+    };
     for (role, side) in [(Role::Value, Side::Above), (Role::Label, Side::Below)] {
         for &i in &by_x {
             let p = &spec.points[i];
-            let (content, size) = match role {
-                Role::Value => (&p.value_text, style.value_pt),
-                _ => (&p.label, style.label_pt),
+            let (runs, size) = match role {
+                Role::Value => (vec![Run::plain(p.value_text.clone())], style.value_pt),
+                _ => (markup::parse(&p.label), style.label_pt),
             };
-            if content.trim().is_empty() {
+            if rich::plain(&runs).trim().is_empty() {
                 continue;
             }
             let req = Request {
@@ -387,7 +598,7 @@ fn build(spec: &DiagramSpec, style: &Style, legend_strip: f64) -> (Scene, Fit) {
                 y: y[i],
                 half_thickness: half_t,
                 side,
-                text: content,
+                text: &runs,
                 size_pt: size,
                 min_pt: style.min_text_pt.min(size),
                 breakable: role == Role::Label,
@@ -397,47 +608,34 @@ fn build(spec: &DiagramSpec, style: &Style, legend_strip: f64) -> (Scene, Fit) {
                 Side::Above => (x[i], y[i] - half_t),
                 Side::Below => (x[i], y[i] + half_t),
             };
-            let chosen = match placer.choose(&cands, origin) {
-                Some(c) => c.clone(),
-                None => {
-                    texts_fit = false;
-                    cands[0].clone()
-                }
-            };
-            let r = chosen.bbox();
-            placer.block(r);
-            // A text that no longer sits over its bar, or sits more than two
-            // lines away from it, gets a leader line back to the bar.
-            let (bx0, bx1) = (x[i] - bar_w[i] / 2.0, x[i] + bar_w[i] / 2.0);
-            let vertical_gap = (r.y0 - y[i]).max(y[i] - r.y1).max(0.0);
-            let far = 2.0 * text::LINE_HEIGHT * em(chosen.size_pt) + 1.0;
-            if chosen.leader || r.x1 < bx0 || r.x0 > bx1 || vertical_gap > far {
-                let from = origin;
-                let to = r.nearest(from.0, from.1);
-                placer.segments.push((from, to));
-                leaders.push(Item::Line(Line {
-                    points: vec![from, to],
-                    colour: style.leader,
-                    width_pt: style.connector_pt * 0.6,
-                    dash: None,
-                    role: Role::Leader,
-                    tag: Some(Tag::Point(p.id.clone())),
-                }));
-            }
-            placed_texts.push(Item::Text(Text {
-                x: chosen.x,
-                y: chosen.y,
-                lines: chosen.lines,
-                size_pt: chosen.size_pt,
-                anchor: chosen.anchor,
-                colour: style.ink,
-                rotation: 0.0,
+            let bar = (x[i] - bar_w[i] / 2.0, x[i] + bar_w[i] / 2.0, y[i]);
+            settle(
+                &mut placer,
+                &cands,
+                origin,
+                Some(bar),
                 role,
-                tag: Some(Tag::Point(p.id.clone())),
-            }));
+                Some(Tag::Point(p.id.clone())),
+            );
         }
     }
+    for (a, (mx, top, bottom)) in marks {
+        let lines: Vec<RichLine> = a.lines().iter().map(|l| markup::parse(l)).collect();
+        if lines.iter().all(|l| rich::plain(l).trim().is_empty()) {
+            continue;
+        }
+        let cands = place::beside(mx, top, bottom, &lines, style.annotation_text_pt);
+        settle(
+            &mut placer,
+            &cands,
+            (mx, (top + bottom) / 2.0),
+            None,
+            Role::AnnotationText,
+            None,
+        );
+    }
 
+    items.extend(annotation_items);
     items.extend(leaders);
     items.extend(bars);
     items.extend(fixed_texts.into_iter().map(Item::Text));

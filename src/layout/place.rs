@@ -4,8 +4,8 @@
 //! connector it would cover. If no nearby spot fits, a wider search moves the
 //! text away and the caller draws a leader line back to its bar.
 
-use super::scene::{Anchor, Rect};
-use super::text;
+use super::scene::{Anchor, Rect, RichLine, Run};
+use super::{rich, text};
 
 /// Gap kept between any two texts, and between a text and a bar, in mm.
 pub const CLEARANCE: f64 = 0.3;
@@ -20,7 +20,7 @@ pub struct Candidate {
     /// First baseline, mm.
     pub y: f64,
     /// The lines as they would be set.
-    pub lines: Vec<String>,
+    pub lines: Vec<RichLine>,
     /// Font size in pt.
     pub size_pt: f64,
     /// Horizontal alignment.
@@ -34,7 +34,7 @@ pub struct Candidate {
 impl Candidate {
     /// The box the text would occupy.
     pub fn bbox(&self) -> Rect {
-        text::block_box(self.x, self.y, &self.lines, self.size_pt, self.anchor, 0.0)
+        rich::block_box(self.x, self.y, &self.lines, self.size_pt, self.anchor, 0.0)
     }
 }
 
@@ -166,8 +166,8 @@ pub struct Request<'a> {
     pub half_thickness: f64,
     /// Preferred side.
     pub side: Side,
-    /// The text as given.
-    pub text: &'a str,
+    /// The text as styled runs.
+    pub text: &'a [Run],
     /// Preferred size, pt.
     pub size_pt: f64,
     /// Smallest allowed size, pt.
@@ -207,15 +207,10 @@ pub fn candidates(req: &Request<'_>) -> Vec<Candidate> {
     for (side, stack) in [(req.side, 0usize), (other, 0), (other, 1), (req.side, 1)] {
         for &size in &sizes {
             let em = size * text::PT_MM;
-            let breaks = if req.breakable {
-                text::line_breaks(req.text, size)
-            } else {
-                vec![vec![req.text.to_string()]]
-            };
-            for lines in &breaks {
+            for lines in &breaks_of(req, size) {
                 let w = lines
                     .iter()
-                    .map(|l| text::width_mm(l, size))
+                    .map(|l| rich::width_mm(l, size))
                     .fold(0.0, f64::max);
                 let n = lines.len() as f64;
                 // One stack level is one line of the other text (value or label).
@@ -254,15 +249,28 @@ pub fn candidates(req: &Request<'_>) -> Vec<Candidate> {
     // Wider search: rings of growing radius at the smallest size and
     // narrowest breaking, with a leader line.
     let size = *sizes.last().unwrap();
+    let lines = breaks_of(req, size).pop().unwrap_or_default();
+    out.extend(ring(
+        req.x,
+        req.y,
+        &lines,
+        size,
+        (req.size_pt - size) * PER_PT_SMALLER,
+    ));
+    // Stable sort: equal costs keep generation order, so output is deterministic.
+    out.sort_by(|a, b| a.0.total_cmp(&b.0));
+    out.into_iter()
+        .map(|(cost, c)| Candidate { cost, ..c })
+        .collect()
+}
+
+/// Far-away positions around `(x, y)` (text centred on each), for a text
+/// that needs a leader line: a grid within [`RING_RADIUS`], nearest first.
+fn ring(x: f64, y: f64, lines: &[RichLine], size: f64, extra: f64) -> Vec<(f64, Candidate)> {
     let em = size * text::PT_MM;
-    let breaks = if req.breakable {
-        text::line_breaks(req.text, size)
-    } else {
-        vec![vec![req.text.to_string()]]
-    };
-    let lines = breaks.last().unwrap().clone();
     let step = 0.8;
     let reach = (RING_RADIUS / step).ceil() as i32;
+    let mut out = Vec::new();
     for iy in -reach..=reach {
         for ix in -reach..=reach {
             let (dx, dy) = (ix as f64 * step, iy as f64 * step);
@@ -271,11 +279,11 @@ pub fn candidates(req: &Request<'_>) -> Vec<Candidate> {
                 continue;
             }
             out.push((
-                FAR_AWAY + d + (req.size_pt - size) * PER_PT_SMALLER,
+                FAR_AWAY + d + extra,
                 Candidate {
-                    x: req.x + dx,
-                    y: req.y + dy + (text::ASCENT - text::DESCENT) * em / 2.0,
-                    lines: lines.clone(),
+                    x: x + dx,
+                    y: y + dy + (text::ASCENT - text::DESCENT) * em / 2.0,
+                    lines: lines.to_vec(),
                     size_pt: size,
                     anchor: Anchor::Middle,
                     leader: true,
@@ -284,11 +292,52 @@ pub fn candidates(req: &Request<'_>) -> Vec<Candidate> {
             ));
         }
     }
-    // Stable sort: equal costs keep generation order, so output is deterministic.
+    out
+}
+
+/// Candidates for a text block beside a vertical mark (an arrow or bracket)
+/// from `y_top` to `y_bottom` at `x`: right of it first, then left, centred
+/// on the mark's middle and sliding along it; then far away with a leader.
+pub fn beside(x: f64, y_top: f64, y_bottom: f64, lines: &[RichLine], size: f64) -> Vec<Candidate> {
+    let em = size * text::PT_MM;
+    let n = lines.len().max(1) as f64;
+    // Baseline of the first line that centres the block on height `yc`.
+    let block_h = (n - 1.0) * text::LINE_HEIGHT * em;
+    let first_baseline = |yc: f64| yc - block_h / 2.0 + (text::ASCENT - text::DESCENT) * em / 2.0;
+    let gap = 0.6;
+    let len = (y_bottom - y_top).abs();
+    let mut out: Vec<(f64, Candidate)> = Vec::new();
+    for (side, anchor, dx) in [(0.0, Anchor::Start, gap), (OTHER_SIDE, Anchor::End, -gap)] {
+        for f in [0.5, 0.4, 0.6, 0.3, 0.7, 0.2, 0.8, 0.1, 0.9, 0.0, 1.0] {
+            let yc = y_top + f * (y_bottom - y_top);
+            out.push((
+                side + (f - 0.5f64).abs() * len,
+                Candidate {
+                    x: x + dx,
+                    y: first_baseline(yc),
+                    lines: lines.to_vec(),
+                    size_pt: size,
+                    anchor,
+                    leader: false,
+                    cost: 0.0,
+                },
+            ));
+        }
+    }
+    out.extend(ring(x, (y_top + y_bottom) / 2.0, lines, size, 0.0));
     out.sort_by(|a, b| a.0.total_cmp(&b.0));
     out.into_iter()
         .map(|(cost, c)| Candidate { cost, ..c })
         .collect()
+}
+
+/// The ways `req`'s text may be set at `size`: one line, or its breaks.
+fn breaks_of(req: &Request<'_>, size: f64) -> Vec<Vec<RichLine>> {
+    if req.breakable {
+        rich::line_breaks(req.text, size)
+    } else {
+        vec![vec![req.text.to_vec()]]
+    }
 }
 
 #[cfg(test)]
@@ -308,13 +357,14 @@ mod tests {
         }
     }
 
-    fn req(text: &str, side: Side) -> Request<'_> {
+    fn req(text: &str, side: Side) -> Request<'static> {
+        let runs: &'static [Run] = Box::leak(vec![Run::plain(text)].into_boxed_slice());
         Request {
             x: 40.0,
             y: 30.0,
             half_thickness: 0.35,
             side,
-            text,
+            text: runs,
             size_pt: 7.0,
             min_pt: 5.0,
             breakable: true,

@@ -2,7 +2,7 @@
 //! thing a renderer sees, so it carries everything needed to draw (colours,
 //! widths, font sizes) and nothing about chemistry.
 
-use super::text;
+use super::rich;
 
 /// An sRGB colour.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
@@ -102,6 +102,16 @@ pub enum Role {
     LegendSample,
     /// The path name of a legend entry.
     LegendText,
+    /// The thin horizontal line at zero energy.
+    ZeroLine,
+    /// The zigzag marking a break in the energy axis.
+    AxisBreak,
+    /// The band behind a rate-determining bar.
+    Highlight,
+    /// An arrow, bracket or guide of an annotation.
+    Annotation,
+    /// The text of an annotation (ΔG‡, ΔΔG‡ and ratio, δE and TOF).
+    AnnotationText,
 }
 
 impl Role {
@@ -120,6 +130,11 @@ impl Role {
             Role::Caption => "caption",
             Role::LegendSample => "legend-sample",
             Role::LegendText => "legend-text",
+            Role::ZeroLine => "zero-line",
+            Role::AxisBreak => "axis-break",
+            Role::Highlight => "highlight",
+            Role::Annotation => "annotation",
+            Role::AnnotationText => "annotation-text",
         }
     }
 }
@@ -141,6 +156,66 @@ pub struct Line {
     pub tag: Option<Tag>,
 }
 
+/// A smooth line: cubic Bézier segments from `start`.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Curve {
+    /// Where the curve begins, mm.
+    pub start: (f64, f64),
+    /// Segments as (first control, second control, end point), mm.
+    pub segments: Vec<[(f64, f64); 3]>,
+    /// Stroke colour.
+    pub colour: Colour,
+    /// Stroke width in pt.
+    pub width_pt: f64,
+    /// Dash pattern in mm; `None` is solid.
+    pub dash: Option<Vec<f64>>,
+    /// What the curve is.
+    pub role: Role,
+    /// What it belongs to.
+    pub tag: Option<Tag>,
+}
+
+/// Vertical position of a run of text.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum Script {
+    /// On the baseline, full size.
+    Normal,
+    /// Lowered and smaller.
+    Sub,
+    /// Raised and smaller.
+    Super,
+}
+
+/// A piece of a text line in one style.
+#[derive(Debug, Clone, PartialEq, Eq)]
+pub struct Run {
+    /// The characters, as shown.
+    pub text: String,
+    /// Baseline position and size.
+    pub script: Script,
+    /// Set in the italic face.
+    pub italic: bool,
+}
+
+impl Run {
+    /// An upright run on the baseline.
+    pub fn plain(text: impl Into<String>) -> Run {
+        Run {
+            text: text.into(),
+            script: Script::Normal,
+            italic: false,
+        }
+    }
+
+    /// True for an upright run on the baseline.
+    pub fn is_plain(&self) -> bool {
+        self.script == Script::Normal && !self.italic
+    }
+}
+
+/// One line of text as styled runs.
+pub type RichLine = Vec<Run>;
+
 /// Horizontal alignment of text relative to its x position.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
 pub enum Anchor {
@@ -159,8 +234,8 @@ pub struct Text {
     pub x: f64,
     /// Baseline of the first line, in mm.
     pub y: f64,
-    /// Lines, top to bottom; the layout breaks long labels itself.
-    pub lines: Vec<String>,
+    /// Lines of styled runs, top to bottom; the layout breaks long labels itself.
+    pub lines: Vec<RichLine>,
     /// Font size in pt.
     pub size_pt: f64,
     /// Horizontal alignment.
@@ -179,7 +254,7 @@ impl Text {
     /// The estimated bounding box on the page (rotation included), from the
     /// same width table the layout used to place it.
     pub fn bbox(&self) -> Rect {
-        text::block_box(
+        rich::block_box(
             self.x,
             self.y,
             &self.lines,
@@ -187,6 +262,11 @@ impl Text {
             self.anchor,
             self.rotation,
         )
+    }
+
+    /// The lines without styling, for searching and tests.
+    pub fn plain_lines(&self) -> Vec<String> {
+        self.lines.iter().map(|l| rich::plain(l)).collect()
     }
 }
 
@@ -197,6 +277,8 @@ pub enum Item {
     Line(Line),
     /// A text block.
     Text(Text),
+    /// A smooth curve.
+    Curve(Curve),
 }
 
 /// A laid-out figure: page size plus items in drawing order.
@@ -219,7 +301,7 @@ impl Scene {
     pub fn texts(&self) -> impl Iterator<Item = &Text> {
         self.items.iter().filter_map(|item| match item {
             Item::Text(t) => Some(t),
-            Item::Line(_) => None,
+            _ => None,
         })
     }
 
@@ -227,7 +309,15 @@ impl Scene {
     pub fn lines(&self) -> impl Iterator<Item = &Line> {
         self.items.iter().filter_map(|item| match item {
             Item::Line(l) => Some(l),
-            Item::Text(_) => None,
+            _ => None,
+        })
+    }
+
+    /// Every curve, in drawing order.
+    pub fn curves(&self) -> impl Iterator<Item = &Curve> {
+        self.items.iter().filter_map(|item| match item {
+            Item::Curve(c) => Some(c),
+            _ => None,
         })
     }
 

@@ -2,6 +2,7 @@
 //! in the units journals state them in (mm for the page, pt for type and
 //! lines) so a figure can be made at its final printed size.
 
+use super::connect::Connector;
 use super::scene::Colour;
 
 /// Okabe, M. & Ito, K. (2008) "Color Universal Design (CUD): how to make
@@ -60,6 +61,22 @@ pub struct Style {
     pub x_caption: Option<String>,
     /// Empty border around everything, in mm.
     pub margin_mm: f64,
+    /// Straight or smooth connectors.
+    pub connector: Connector,
+    /// Draw a thin line at zero energy.
+    pub zero_line: bool,
+    /// Cut the energy axis when a state lies far below the rest (rule in
+    /// `layout::vertical`).
+    pub axis_break: bool,
+    /// Stroke of annotation arrows and brackets in pt.
+    pub annotation_pt: f64,
+    /// Size of annotation texts in pt.
+    pub annotation_text_pt: f64,
+    /// Colour of the band behind rate-determining bars (light, so it reads
+    /// as emphasis in greyscale too).
+    pub highlight: Colour,
+    /// Colour of the zero line.
+    pub zero_colour: Colour,
 }
 
 impl Default for Style {
@@ -90,6 +107,13 @@ impl Default for Style {
             leader: Colour::hex(0x808080),
             x_caption: Some("reaction coordinate".into()),
             margin_mm: 1.0,
+            connector: Connector::Straight,
+            zero_line: false,
+            axis_break: false,
+            annotation_pt: 0.5,
+            annotation_text_pt: 6.5,
+            highlight: Colour::hex(0xD9D9D9),
+            zero_colour: Colour::hex(0xBFBFBF),
         }
     }
 }
@@ -111,5 +135,57 @@ impl Style {
         } else {
             Some(self.dashes[i % self.dashes.len()].clone())
         }
+    }
+}
+
+/// Preset names with what they are for, for help texts and docs.
+pub const PRESETS: &[(&str, &str)] = &[
+    ("article", "single journal column: 85 × 65 mm, 7 pt type"),
+    (
+        "article-wide",
+        "double journal column: 175 × 90 mm, 8 pt type",
+    ),
+    ("slide", "a slide: 240 × 135 mm, 16 pt type, heavier lines"),
+    (
+        "poster",
+        "a poster panel: 300 × 200 mm, 22 pt type, heavy lines",
+    ),
+];
+
+impl Style {
+    /// The preset called `name` (see [`PRESETS`]); `None` for an unknown name.
+    pub fn preset(name: &str) -> Option<Style> {
+        let base = Style::default();
+        // (width, height, type pt, line factor)
+        let (w, h, pt, k) = match name {
+            "article" => return Some(base),
+            "article-wide" => (175.0, 90.0, 8.0, 1.0),
+            "slide" => (240.0, 135.0, 16.0, 2.0),
+            "poster" => (300.0, 200.0, 22.0, 2.8),
+            _ => return None,
+        };
+        let f = pt / base.label_pt;
+        Some(Style {
+            width_mm: w,
+            height_mm: h,
+            label_pt: pt,
+            value_pt: pt,
+            tick_pt: pt,
+            axis_label_pt: pt + 1.0,
+            min_text_pt: base.min_text_pt * f,
+            annotation_text_pt: base.annotation_text_pt * f,
+            bar_pt: base.bar_pt * k,
+            connector_pt: base.connector_pt * k,
+            axis_pt: base.axis_pt * k,
+            annotation_pt: base.annotation_pt * k,
+            bar_width_mm: base.bar_width_mm * f.sqrt() * 1.5,
+            dashes: base
+                .dashes
+                .iter()
+                .map(|d| d.iter().map(|v| v * k).collect())
+                .collect(),
+            margin_mm: base.margin_mm * k,
+            ..base
+        })
     }
 }

@@ -5,8 +5,9 @@
 //! `data-id` (a point) or `data-path` (a path).
 
 use super::xml::{escape, escape_into, num};
+use crate::layout::rich::{SCRIPT_SCALE, SUB_DROP, SUPER_RISE};
 use crate::layout::text::PT_MM;
-use crate::layout::{Anchor, Colour, Item, Line, Scene, Tag, Text};
+use crate::layout::{Anchor, Colour, Curve, Item, Line, Run, Scene, Script, Tag, Text};
 use std::fmt::Write;
 
 /// The scene as a standalone SVG document.
@@ -32,6 +33,7 @@ pub fn to_svg(scene: &Scene) -> String {
         match item {
             Item::Line(l) => line(&mut out, l),
             Item::Text(t) => text(&mut out, t),
+            Item::Curve(c) => curve(&mut out, c),
         }
     }
     out.push_str("</svg>\n");
@@ -86,17 +88,52 @@ fn line(out: &mut String, l: &Line) {
             pts.join(" ")
         );
     }
+    stroke(out, l.colour, l.width_pt, &l.dash);
+    tag(out, &l.tag);
+    out.push_str("/>\n");
+}
+
+/// Stroke colour, width and dash attributes.
+fn stroke(out: &mut String, c: Colour, width_pt: f64, dash: &Option<Vec<f64>>) {
     let _ = write!(
         out,
         " stroke=\"{}\" stroke-width=\"{}\"",
-        colour(l.colour),
-        num(l.width_pt * PT_MM)
+        colour(c),
+        num(width_pt * PT_MM)
     );
-    if let Some(dash) = &l.dash {
+    if let Some(dash) = dash {
         let d: Vec<String> = dash.iter().map(|&v| num(v)).collect();
         let _ = write!(out, " stroke-dasharray=\"{}\"", d.join(" "));
     }
-    tag(out, &l.tag);
+}
+
+/// A curve as one `<path>` of cubic segments.
+fn curve(out: &mut String, c: &Curve) {
+    if c.segments.is_empty() {
+        return;
+    }
+    let _ = write!(
+        out,
+        "<path class=\"{}\" d=\"M{},{}",
+        c.role.class(),
+        num(c.start.0),
+        num(c.start.1)
+    );
+    for seg in &c.segments {
+        out.push_str(" C");
+        for (i, (x, y)) in seg.iter().enumerate() {
+            let _ = write!(
+                out,
+                "{}{},{}",
+                if i == 0 { "" } else { " " },
+                num(*x),
+                num(*y)
+            );
+        }
+    }
+    out.push_str("\" fill=\"none\"");
+    stroke(out, c.colour, c.width_pt, &c.dash);
+    tag(out, &c.tag);
     out.push_str("/>\n");
 }
 
@@ -127,20 +164,53 @@ fn text(out: &mut String, t: &Text) {
     }
     tag(out, &t.tag);
     out.push('>');
+    let em = t.size_pt * PT_MM;
+    let line_dy = crate::layout::text::LINE_HEIGHT * em;
+    // Baseline offset of the last run written, relative to its line's baseline.
+    let mut shift = 0.0;
     if t.lines.len() == 1 {
-        escape_into(out, &t.lines[0]);
+        runs(out, &t.lines[0], em, &mut shift);
     } else {
-        let dy = num(crate::layout::text::LINE_HEIGHT * t.size_pt * PT_MM);
         for (i, l) in t.lines.iter().enumerate() {
-            let _ = write!(
-                out,
-                "<tspan x=\"{}\" dy=\"{}\">",
-                num(t.x),
-                if i == 0 { "0" } else { &dy }
-            );
-            escape_into(out, l);
+            let dy = if i == 0 { 0.0 } else { line_dy } - shift;
+            shift = 0.0;
+            let dy = if i == 0 { "0".to_string() } else { num(dy) };
+            let _ = write!(out, "<tspan x=\"{}\" dy=\"{dy}\">", num(t.x));
+            runs(out, l, em, &mut shift);
             out.push_str("</tspan>");
         }
     }
     out.push_str("</text>\n");
+}
+
+/// The runs of one line. An upright baseline run is bare text (so labels
+/// without markup are written as they always were); others are `<tspan>`s
+/// moved with `dy` (understood by every SVG reader), with no whitespace
+/// between them.
+fn runs(out: &mut String, line: &[Run], em: f64, shift: &mut f64) {
+    for r in line {
+        let target = match r.script {
+            Script::Normal => 0.0,
+            Script::Super => -SUPER_RISE * em,
+            Script::Sub => SUB_DROP * em,
+        };
+        if r.is_plain() && *shift == 0.0 {
+            escape_into(out, &r.text);
+            continue;
+        }
+        out.push_str("<tspan");
+        if target != *shift {
+            let _ = write!(out, " dy=\"{}\"", num(target - *shift));
+            *shift = target;
+        }
+        if r.script != Script::Normal {
+            let _ = write!(out, " font-size=\"{}\"", num(SCRIPT_SCALE * em));
+        }
+        if r.italic {
+            out.push_str(" font-style=\"italic\"");
+        }
+        out.push('>');
+        escape_into(out, &r.text);
+        out.push_str("</tspan>");
+    }
 }

@@ -1,0 +1,191 @@
+//! Where annotations of computed numbers go: the arrow, bracket and guide
+//! lines of each, and the mark their text is placed beside. The numbers are
+//! already formatted in the [`super::Annotation`]; placement of the text
+//! joins the same collision checks as every other text.
+
+use super::scene::{Colour, Item, Line, Rect, Role, Tag};
+use super::{Annotation, Style, text};
+
+/// Where the stationary points sit on the page.
+pub struct Geometry<'a> {
+    /// Bar centres, mm.
+    pub x: &'a [f64],
+    /// Bar heights, mm.
+    pub y: &'a [f64],
+    /// Bar lengths, mm.
+    pub bar_w: &'a [f64],
+    /// Point ids, for tags.
+    pub ids: &'a [String],
+    /// Which points are drawn.
+    pub drawable: &'a [bool],
+    /// Left and right edge of the plot, mm.
+    pub plot: (f64, f64),
+}
+
+/// An annotation's drawing, with what the placement must respect.
+pub struct Drawn {
+    /// Lines to draw.
+    pub items: Vec<Item>,
+    /// Boxes no text may cover (arrow shafts, brackets).
+    pub hard: Vec<Rect>,
+    /// Segments texts should preferably not cover (guides).
+    pub soft: Vec<((f64, f64), (f64, f64))>,
+    /// The vertical mark the text goes beside: (x, top, bottom).
+    pub mark: (f64, f64, f64),
+}
+
+/// Length of an arrowhead, mm.
+const HEAD: f64 = 0.9;
+/// Gap between a guide's end and the mark, mm.
+const GUIDE_GAP: f64 = 0.0;
+
+/// The drawing of `a`, or `None` when its points are not drawn or the
+/// annotation has no height to show.
+pub fn draw(a: &Annotation, g: &Geometry<'_>, style: &Style) -> Option<Drawn> {
+    let ok = |i: usize| i < g.drawable.len() && g.drawable[i];
+    let half_t = style.bar_pt * text::PT_MM / 2.0;
+    match *a {
+        Annotation::Barrier { from, to, .. }
+        | Annotation::Span {
+            tdi: from,
+            tdts: to,
+            ..
+        } => {
+            if !ok(from) || !ok(to) || g.y[from] - g.y[to] < 2.0 * half_t + 0.5 {
+                return None;
+            }
+            let tag = Some(Tag::Point(g.ids[to].clone()));
+            let x = g.x[to];
+            let (top, bottom) = (g.y[to] + half_t, g.y[from]);
+            let mut d = Drawn {
+                items: double_arrow(x, top, bottom, style.ink, style, tag.clone()),
+                hard: vec![Rect {
+                    x0: x - 0.45,
+                    y0: top,
+                    x1: x + 0.45,
+                    y1: bottom,
+                }],
+                soft: Vec::new(),
+                mark: (x, top, bottom),
+            };
+            guide(&mut d, g, from, x, style, tag);
+            Some(d)
+        }
+        Annotation::Difference { a, b, .. } => {
+            if !ok(a) || !ok(b) || a == b {
+                return None;
+            }
+            let (hi, lo) = if g.y[a] <= g.y[b] { (a, b) } else { (b, a) };
+            let right = (g.x[a] + g.bar_w[a] / 2.0).max(g.x[b] + g.bar_w[b] / 2.0) + 1.2;
+            let left = (g.x[a] - g.bar_w[a] / 2.0).min(g.x[b] - g.bar_w[b] / 2.0) - 1.2;
+            // Right of both bars unless that leaves no room for the text.
+            let (x, tick) = if right + 8.0 < g.plot.1 || left - 8.0 < g.plot.0 {
+                (right, -0.8)
+            } else {
+                (left, 0.8)
+            };
+            let (top, bottom) = (g.y[hi], g.y[lo]);
+            let tag = Some(Tag::Point(g.ids[hi].clone()));
+            let mut d = Drawn {
+                items: vec![line(
+                    vec![(x + tick, top), (x, top), (x, bottom), (x + tick, bottom)],
+                    style.ink,
+                    style.annotation_pt,
+                    None,
+                    tag.clone(),
+                )],
+                hard: vec![Rect {
+                    x0: x.min(x + tick) - 0.2,
+                    y0: top - 0.2,
+                    x1: x.max(x + tick) + 0.2,
+                    y1: bottom + 0.2,
+                }],
+                soft: Vec::new(),
+                mark: (x, top, bottom),
+            };
+            guide(&mut d, g, hi, x, style, tag.clone());
+            guide(&mut d, g, lo, x, style, tag);
+            Some(d)
+        }
+    }
+}
+
+/// A dotted guide at point `p`'s height from its bar to `x`, if the bar does
+/// not already reach it.
+fn guide(d: &mut Drawn, g: &Geometry<'_>, p: usize, x: f64, style: &Style, tag: Option<Tag>) {
+    let (l, r) = (g.x[p] - g.bar_w[p] / 2.0, g.x[p] + g.bar_w[p] / 2.0);
+    let y = g.y[p];
+    let from = if x > r {
+        r
+    } else if x < l {
+        l
+    } else {
+        return;
+    };
+    let to = if x > from {
+        x + GUIDE_GAP
+    } else {
+        x - GUIDE_GAP
+    };
+    d.soft.push(((from, y), (to, y)));
+    d.items.push(line(
+        vec![(from, y), (to, y)],
+        style.leader,
+        style.annotation_pt * 0.8,
+        Some(vec![0.3, 0.5]),
+        tag,
+    ));
+}
+
+/// A vertical double-headed arrow from `top` to `bottom` at `x`: a shaft and
+/// two open heads (lines only, so every format draws them alike).
+pub fn double_arrow(
+    x: f64,
+    top: f64,
+    bottom: f64,
+    colour: Colour,
+    style: &Style,
+    tag: Option<Tag>,
+) -> Vec<Item> {
+    let head = HEAD.min((bottom - top) / 3.0);
+    let half = head * 0.55;
+    let w = style.annotation_pt;
+    vec![
+        line(vec![(x, top), (x, bottom)], colour, w, None, tag.clone()),
+        line(
+            vec![(x - half, top + head), (x, top), (x + half, top + head)],
+            colour,
+            w,
+            None,
+            tag.clone(),
+        ),
+        line(
+            vec![
+                (x - half, bottom - head),
+                (x, bottom),
+                (x + half, bottom - head),
+            ],
+            colour,
+            w,
+            None,
+            tag,
+        ),
+    ]
+}
+
+fn line(
+    points: Vec<(f64, f64)>,
+    colour: Colour,
+    width_pt: f64,
+    dash: Option<Vec<f64>>,
+    tag: Option<Tag>,
+) -> Item {
+    Item::Line(Line {
+        points,
+        colour,
+        width_pt,
+        dash,
+        role: Role::Annotation,
+        tag,
+    })
+}
