@@ -67,7 +67,10 @@ fn encode(pixmap: &tiny_skia::Pixmap, dpi: f64) -> Result<Vec<u8>, RenderError> 
         let mut encoder = png::Encoder::new(&mut out, pixmap.width(), pixmap.height());
         encoder.set_color(colour);
         encoder.set_depth(png::BitDepth::Eight);
-        encoder.set_compression(png::Compression::Default);
+        // fdeflate's fast mode: a third of the time of the default level; at
+        // 600 dpi the demo's file is even smaller (248 vs 272 kB), at 300 dpi
+        // twice as large (119 vs 60 kB): speed wins for the 600 dpi default.
+        encoder.set_compression(png::Compression::Fast);
         encoder.set_filter(png::FilterType::Paeth);
         encoder.set_adaptive_filter(png::AdaptiveFilterType::Adaptive);
         let per_metre = (dpi / 0.0254).round() as u32;
