@@ -12,6 +12,8 @@
 //! 3. [`layout`] — turns the numbers to show into a [`layout::Scene`]
 //!    (positioned lines and text in millimetres). It does not compute kinetics.
 //! 4. [`render`] — draws a scene as SVG, PNG or PDF. It never sees a profile.
+//! 5. [`simulate`] — integrates the mass-action kinetics of the model in time
+//!    (stiff BDF), for the regimes between the closed-form limits.
 //!
 //! [`units`] holds the physical constants and units every stage shares,
 //! [`font`] the bundled typeface that layout measures with and render draws
@@ -32,4 +34,5 @@ pub mod model;
 pub mod profile;
 pub mod render;
 pub mod report;
+pub mod simulate;
 pub mod units;

@@ -1,0 +1,91 @@
+//! Microkinetic simulation: the mass-action kinetics a profile implies,
+//! integrated in time.
+//!
+//! Closed forms cover the limits (Curtin–Hammett, kinetic quench, the
+//! energetic span steady state); the simulation answers every regime in
+//! between, with the same rate constants [`crate::kinetics::analyze`] reports.
+//! Every step is first order in the model's states (co-reactants in excess are
+//! already folded into the energies as pseudo-first order). Like the rest of
+//! the computing core it never prints or writes files.
+//!
+//! - [`network`]: species, reactions, net-flux right-hand side and Jacobian.
+//! - [`integrate`]: stiff adaptive BDF integration (diffsol).
+//! - [`initial`], [`until`]: where the material starts, when to stop.
+//! - [`run`]: one simulation and its summary.
+//! - [`steady`]: the exact steady state a run has approached.
+
+pub mod initial;
+pub mod integrate;
+pub mod network;
+pub mod run;
+pub mod steady;
+pub mod until;
+
+pub use initial::Initial;
+pub use integrate::Tolerances;
+pub use network::Network;
+pub use run::{Options, Simulation, Stopped, simulate};
+pub use until::Until;
+
+/// Why a simulation could not be run or finished.
+#[derive(Debug, Clone, PartialEq, thiserror::Error)]
+pub enum SimulateError {
+    /// The integrator gave up.
+    #[error("the integrator stopped at t = {time_s:e} s (step {step_s:e} s): {message}")]
+    Integrator {
+        /// Time reached, s.
+        time_s: f64,
+        /// Last step size, s.
+        step_s: f64,
+        /// The integrator's reason.
+        message: String,
+    },
+    /// The safeguard on the number of steps was hit.
+    #[error(
+        "no end after {steps} steps (t = {time_s:e} s, step {step_s:e} s); give a shorter --until"
+    )]
+    TooManySteps {
+        /// Steps taken.
+        steps: usize,
+        /// Time reached, s.
+        time_s: f64,
+        /// Last step size, s.
+        step_s: f64,
+    },
+    /// `--until` could not be read.
+    #[error("cannot read --until '{text}': {why}")]
+    BadUntil {
+        /// What was given.
+        text: String,
+        /// What is wrong.
+        why: String,
+    },
+    /// An initial concentration could not be read.
+    #[error("cannot read the initial concentration '{text}': {why}")]
+    BadInitial {
+        /// What was given.
+        text: String,
+        /// What is wrong.
+        why: String,
+    },
+    /// An initial condition names a state the profile does not have.
+    #[error("no state '{id}' in the profile")]
+    UnknownState {
+        /// The id given.
+        id: String,
+    },
+    /// An initial condition names a transition state.
+    #[error("'{id}' is a transition state; material can only start in a state (minimum)")]
+    NotAMinimum {
+        /// The id given.
+        id: String,
+    },
+    /// Every initial concentration is zero.
+    #[error("every initial concentration is zero; nothing to simulate")]
+    NoMaterial,
+    /// A conversion was asked for, but no material starts outside products and catalyst states.
+    #[error(
+        "a conversion needs starting material outside the products and the catalytic cycle; give a time instead (e.g. --until '1 h')"
+    )]
+    NoConversion,
+}
