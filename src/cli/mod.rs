@@ -8,6 +8,7 @@ mod convert;
 mod error;
 mod files;
 mod render;
+mod simulate;
 mod sweep;
 mod watch;
 
@@ -108,6 +109,10 @@ enum Command {
         #[arg(long)]
         json: bool,
     },
+    /// Integrate the mass-action kinetics of the profile in time (every step
+    /// both ways): final distribution, product ratio, time to 50/90/99 %
+    /// conversion, turnover of cycles; the time course as CSV.
+    Simulate(simulate::SimulateArgs),
     /// Convert a selectivity between its three forms at one temperature: a
     /// product ratio (95:5 or 19), an ee or de (90%ee, 80%de), or a free-energy
     /// difference ΔΔG‡ (1.8 kcal/mol, 7 kJ/mol).
@@ -219,6 +224,7 @@ fn run(cli: Cli) -> Result<(), CliError> {
             Exit::Success => Ok(()),
             code => Err(CliError::Finished(code)),
         },
+        Command::Simulate(args) => simulate::run(&args),
         Command::Convert {
             value,
             json,

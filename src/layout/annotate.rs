@@ -55,8 +55,14 @@ pub fn draw(a: &Annotation, g: &Geometry<'_>, style: &Style) -> Option<Drawn> {
                 return None;
             }
             let tag = Some(Tag::Point(g.ids[to].clone()));
-            let x = g.x[to];
             let (top, bottom) = (g.y[to] + half_t, g.y[from]);
+            // The TS's centre, else just beside either end of its bar: the
+            // first place where the arrow crosses no other bar.
+            let half = g.bar_w[to] / 2.0;
+            let x = [g.x[to], g.x[to] - half - 0.8, g.x[to] + half + 0.8]
+                .into_iter()
+                .find(|&x| !crosses_bar(g, x, top, bottom, &[from, to]))
+                .unwrap_or(g.x[to]);
             let mut d = Drawn {
                 items: double_arrow(x, top, bottom, style.ink, style, tag.clone()),
                 hard: vec![Rect {
@@ -108,6 +114,18 @@ pub fn draw(a: &Annotation, g: &Geometry<'_>, style: &Style) -> Option<Drawn> {
             Some(d)
         }
     }
+}
+
+/// True when a vertical line at `x` from `top` to `bottom` passes through
+/// the bar of a point other than `except`.
+fn crosses_bar(g: &Geometry<'_>, x: f64, top: f64, bottom: f64, except: &[usize]) -> bool {
+    (0..g.x.len()).any(|i| {
+        g.drawable[i]
+            && !except.contains(&i)
+            && (g.x[i] - x).abs() <= g.bar_w[i] / 2.0 + 0.3
+            && g.y[i] > top - 0.3
+            && g.y[i] < bottom + 0.3
+    })
 }
 
 /// A dotted guide at point `p`'s height from its bar to `x`, if the bar does

@@ -364,7 +364,7 @@ fn build(spec: &DiagramSpec, style: &Style, legend_strip: f64) -> (Scene, Fit) {
             style.axis_pt,
             Role::Tick,
         ));
-        fixed_texts.push(fixed_text(
+        let t = fixed_text(
             axis_x - tick_len - 0.6,
             ty + (text::ASCENT - text::DESCENT) / 2.0 * em(style.tick_pt),
             label,
@@ -373,7 +373,13 @@ fn build(spec: &DiagramSpec, style: &Style, legend_strip: f64) -> (Scene, Fit) {
             0.0,
             Role::TickLabel,
             style,
-        ));
+        );
+        // Near an axis break two ticks may come close: the mark stays, the
+        // number that would touch the one above is left out.
+        let b = t.bbox().inflate(place::CLEARANCE);
+        if !fixed_texts.iter().any(|f| f.bbox().intersects(&b)) {
+            fixed_texts.push(t);
+        }
     }
     if !spec.axis_label.is_empty() {
         fixed_texts.push(fixed_text(
@@ -515,8 +521,7 @@ fn build(spec: &DiagramSpec, style: &Style, legend_strip: f64) -> (Scene, Fit) {
                 placer.block(*r);
             }
             placer.segments.extend(d.soft.iter().copied());
-            annotation_items.extend(d.items);
-            marks.push((a, d.mark));
+            marks.push((a, d.mark, d.items));
         }
     }
 
@@ -539,11 +544,14 @@ fn build(spec: &DiagramSpec, style: &Style, legend_strip: f64) -> (Scene, Fit) {
                       tag: Option<Tag>| {
         let chosen = match placer.choose(cands, origin) {
             Some(c) => c.clone(),
+            // An annotation with no free spot is left out rather than
+            // forced on top of something.
+            None if role == Role::AnnotationText => return false,
             None => {
                 texts_fit = false;
                 match cands.first() {
                     Some(c) => c.clone(),
-                    None => return,
+                    None => return false,
                 }
             }
         };
@@ -582,6 +590,7 @@ fn build(spec: &DiagramSpec, style: &Style, legend_strip: f64) -> (Scene, Fit) {
             role,
             tag,
         }));
+        true
     };
     for (role, side) in [(Role::Value, Side::Above), (Role::Label, Side::Below)] {
         for &i in &by_x {
@@ -609,7 +618,7 @@ fn build(spec: &DiagramSpec, style: &Style, legend_strip: f64) -> (Scene, Fit) {
                 Side::Below => (x[i], y[i] + half_t),
             };
             let bar = (x[i] - bar_w[i] / 2.0, x[i] + bar_w[i] / 2.0, y[i]);
-            settle(
+            let _ = settle(
                 &mut placer,
                 &cands,
                 origin,
@@ -619,20 +628,23 @@ fn build(spec: &DiagramSpec, style: &Style, legend_strip: f64) -> (Scene, Fit) {
             );
         }
     }
-    for (a, (mx, top, bottom)) in marks {
+    for (a, (mx, top, bottom), drawing) in marks {
         let lines: Vec<RichLine> = a.lines().iter().map(|l| markup::parse(l)).collect();
-        if lines.iter().all(|l| rich::plain(l).trim().is_empty()) {
-            continue;
-        }
         let cands = place::beside(mx, top, bottom, &lines, style.annotation_text_pt);
-        settle(
-            &mut placer,
-            &cands,
-            (mx, (top + bottom) / 2.0),
-            None,
-            Role::AnnotationText,
-            None,
-        );
+        let origin = (mx, (top + bottom) / 2.0);
+        let empty = lines.iter().all(|l| rich::plain(l).trim().is_empty());
+        if empty
+            || settle(
+                &mut placer,
+                &cands,
+                origin,
+                None,
+                Role::AnnotationText,
+                None,
+            )
+        {
+            annotation_items.extend(drawing);
+        }
     }
 
     items.extend(annotation_items);

@@ -145,7 +145,7 @@ pub const PRESETS: &[(&str, &str)] = &[
         "article-wide",
         "double journal column: 175 × 90 mm, 8 pt type",
     ),
-    ("slide", "a slide: 240 × 135 mm, 16 pt type, heavier lines"),
+    ("slide", "a slide: 240 × 135 mm, 14 pt type, heavier lines"),
     (
         "poster",
         "a poster panel: 300 × 200 mm, 22 pt type, heavy lines",
@@ -160,7 +160,7 @@ impl Style {
         let (w, h, pt, k) = match name {
             "article" => return Some(base),
             "article-wide" => (175.0, 90.0, 8.0, 1.0),
-            "slide" => (240.0, 135.0, 16.0, 2.0),
+            "slide" => (240.0, 135.0, 14.0, 2.0),
             "poster" => (300.0, 200.0, 22.0, 2.8),
             _ => return None,
         };

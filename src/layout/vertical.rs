@@ -3,7 +3,7 @@
 //!
 //! Break rule: when the largest gap between neighbouring energies is at least
 //! 40 % of the whole range, lies below every other point but at most a
-//! quarter of them (e.g. a very exergonic product), and would save at least
+//! third of them (e.g. a very exergonic product), and would save at least
 //! two tick steps, the empty stretch is cut out. Both parts keep the same mm
 //! per energy unit, so drawn barriers stay comparable; a mark on the axis
 //! shows the cut.
@@ -155,7 +155,7 @@ pub fn break_at(values: &[f64]) -> Option<(f64, f64)> {
         .map(|(i, w)| (i, w[1] - w[0]))
         .fold((0, f64::NEG_INFINITY), |a, b| if b.1 > a.1 { b } else { a });
     let below = i + 1;
-    (gap >= 0.4 * range && below <= (n / 4).max(1)).then(|| (v[i], v[i + 1]))
+    (gap >= 0.4 * range && below <= (n / 3).max(1)).then(|| (v[i], v[i + 1]))
 }
 
 #[cfg(test)]

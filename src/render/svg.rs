@@ -163,6 +163,10 @@ fn text(out: &mut String, t: &Text) {
         );
     }
     tag(out, &t.tag);
+    // Styled runs are separate nodes: keep the spaces at their edges.
+    if t.lines.iter().flatten().any(|r| !r.is_plain()) {
+        out.push_str(" xml:space=\"preserve\"");
+    }
     out.push('>');
     let em = t.size_pt * PT_MM;
     let line_dy = crate::layout::text::LINE_HEIGHT * em;
