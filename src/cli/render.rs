@@ -158,7 +158,7 @@ impl FigureOptions {
 impl Target {
     /// The figure of `model` as the bytes of the output file.
     pub fn draw(&self, model: &Model) -> Result<Vec<u8>, CliError> {
-        let spec = eyrie::figure::diagram_spec(model);
+        let spec = eyrie::figure::diagram_spec(model, &eyrie::figure::FigureOptions::default());
         let scene = eyrie::layout::layout(&spec, &self.style);
         let bytes = match self.format {
             Format::Svg => Ok(eyrie::render::to_svg(&scene).into_bytes()),
