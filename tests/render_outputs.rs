@@ -213,7 +213,7 @@ fn drawn_text_stays_inside_the_boxes_the_layout_measured() {
         let path = format!("{}/profiles/{name}.toml", env!("CARGO_MANIFEST_DIR"));
         let text = std::fs::read_to_string(path).unwrap();
         let model = eyrie::profile::parse(&text).unwrap().model;
-        let spec = eyrie::figure::diagram_spec(&model);
+        let spec = eyrie::figure::diagram_spec(&model, &eyrie::figure::FigureOptions::default());
         let scene = eyrie::layout::layout(&spec, &eyrie::layout::Style::default());
         let tree = usvg_tree(&eyrie::render::to_svg(&scene));
         let mut drawn = Vec::new();
