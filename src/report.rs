@@ -36,6 +36,123 @@ pub struct AnalysisReport {
     pub selectivity: Option<SelectivityReport>,
     /// The energetic span analysis of every `cycle = true` path.
     pub cycles: Vec<CycleReport>,
+    /// Monte Carlo intervals, when the profile states an uncertainty.
+    pub uncertainty: Option<UncertaintyReport>,
+}
+
+/// A central interval with its median.
+#[derive(Debug, Clone, Copy, Serialize)]
+pub struct IntervalReport {
+    /// Lower bound.
+    pub low: f64,
+    /// Median.
+    pub median: f64,
+    /// Upper bound.
+    pub high: f64,
+}
+
+impl From<crate::kinetics::uncertainty::Interval> for IntervalReport {
+    fn from(i: crate::kinetics::uncertainty::Interval) -> Self {
+        IntervalReport {
+            low: i.low,
+            median: i.median,
+            high: i.high,
+        }
+    }
+}
+
+/// Monte Carlo intervals of the predicted quantities.
+#[derive(Debug, Clone, Serialize)]
+pub struct UncertaintyReport {
+    /// Samples drawn.
+    pub samples: usize,
+    /// Seed of the random stream (same seed, same numbers).
+    pub seed: u64,
+    /// Central probability of every interval, e.g. 0.95.
+    pub level: f64,
+    /// Per path: apparent barrier (`unit`) and rate constant (s⁻¹).
+    pub paths: Vec<PathInterval>,
+    /// Product id → interval of its final fraction.
+    pub products: std::collections::BTreeMap<String, IntervalReport>,
+    /// Interval of the nominal major over second product ratio.
+    pub ratio: Option<RatioInterval>,
+    /// Per cycle: interval of the TOF (s⁻¹).
+    pub cycles: Vec<CycleInterval>,
+    /// Per observation (in file order): the share of samples in which it is consistent.
+    pub probability_consistent: Vec<f64>,
+}
+
+/// A path's intervals.
+#[derive(Debug, Clone, Serialize)]
+pub struct PathInterval {
+    /// Path name.
+    pub name: String,
+    /// Apparent barrier, in `unit`.
+    pub barrier: IntervalReport,
+    /// Apparent rate constant, s⁻¹.
+    pub k: IntervalReport,
+}
+
+/// The product ratio's interval.
+#[derive(Debug, Clone, Serialize)]
+pub struct RatioInterval {
+    /// The nominal major product.
+    pub major: String,
+    /// The nominal second product.
+    pub minor: String,
+    /// Interval of [major]/[minor].
+    #[serde(flatten)]
+    pub interval: IntervalReport,
+}
+
+/// A cycle's TOF interval.
+#[derive(Debug, Clone, Serialize)]
+pub struct CycleInterval {
+    /// Path name.
+    pub name: String,
+    /// TOF, s⁻¹.
+    pub tof: IntervalReport,
+}
+
+impl UncertaintyReport {
+    /// Names the Monte Carlo result's quantities.
+    pub fn new(model: &Model, mc: &crate::kinetics::uncertainty::McResult) -> UncertaintyReport {
+        let id = |p: usize| model.point(p).id.clone();
+        UncertaintyReport {
+            samples: mc.samples,
+            seed: mc.seed,
+            level: mc.level,
+            paths: model
+                .paths()
+                .iter()
+                .enumerate()
+                .map(|(i, p)| PathInterval {
+                    name: p.name.clone(),
+                    barrier: mc.path_barriers[i].into(),
+                    k: mc.path_rates[i].into(),
+                })
+                .collect(),
+            products: mc
+                .products
+                .iter()
+                .map(|(p, i)| (id(*p), (*i).into()))
+                .collect(),
+            ratio: mc.ratio.map(|(a, b, i)| RatioInterval {
+                major: id(a),
+                minor: id(b),
+                interval: i.into(),
+            }),
+            cycles: mc
+                .cycles
+                .iter()
+                .map(|(c, i)| CycleInterval {
+                    name: model.paths()[*c].name.clone(),
+                    tof: (*i).into(),
+                })
+                .collect(),
+            probability_consistent: mc.consistent.clone(),
+        }
+    }
 }
 
 /// One catalytic cycle by the energetic span model.
@@ -232,6 +349,7 @@ impl AnalysisReport {
                 .filter_map(|p| crate::kinetics::cycle::analyze_cycle(model, p))
                 .map(|c| CycleReport::new(model, &c))
                 .collect(),
+            uncertainty: None,
         }
     }
 }

@@ -10,12 +10,19 @@ use eyrie::units::Temperature;
 use std::path::Path;
 
 /// Runs the analysis and prints it.
-pub fn run(path: &Path, conditions: &super::Conditions, json: bool) -> Result<(), CliError> {
+pub fn run(
+    path: &Path,
+    conditions: &super::Conditions,
+    monte_carlo: &super::uncertainty::McArgs,
+    json: bool,
+) -> Result<(), CliError> {
     let (parsed, warnings) = files::load(path)?;
     eprint!("{warnings}");
     let model = conditions.apply(parsed.model);
     let analysis = kinetics::analyze(&model);
-    let report = AnalysisReport::new(&model, &analysis);
+    let mut report = AnalysisReport::new(&model, &analysis);
+    report.uncertainty = super::uncertainty::run(&model, monte_carlo)
+        .map(|mc| eyrie::report::UncertaintyReport::new(&model, &mc));
     if json {
         let text = serde_json::to_string_pretty(&report).expect("report is plain data");
         println!("{text}");
@@ -173,6 +180,41 @@ fn table(r: &AnalysisReport, decimals: usize) -> String {
             "  degree of TOF control (≥ 0.01): {}\n",
             shown.join(", ")
         ));
+    }
+    if let Some(u) = &r.uncertainty {
+        let pct = 100.0 * u.level;
+        out.push('\n');
+        out.push_str(&format!(
+            "uncertainty: {pct:.0} % intervals from {} Monte Carlo samples (seed {})\n",
+            u.samples, u.seed
+        ));
+        let iv = |i: &eyrie::report::IntervalReport, f: &dyn Fn(f64) -> String| {
+            format!("{} [{} – {}]", f(i.median), f(i.low), f(i.high))
+        };
+        for p in &u.paths {
+            out.push_str(&format!(
+                "  {}: barrier {} {}, k {} s⁻¹\n",
+                p.name,
+                iv(&p.barrier, &|v| e(v)),
+                r.unit,
+                iv(&p.k, &|v| format::scientific(v))
+            ));
+        }
+        if let Some(ratio) = &u.ratio {
+            out.push_str(&format!(
+                "  {}:{} = {}\n",
+                ratio.major,
+                ratio.minor,
+                iv(&ratio.interval, &|v| format::scientific(v))
+            ));
+        }
+        for c in &u.cycles {
+            out.push_str(&format!(
+                "  TOF({}) = {} s⁻¹\n",
+                c.name,
+                iv(&c.tof, &|v| format::scientific(v))
+            ));
+        }
     }
     if let Some(sel) = &r.selectivity {
         out.push('\n');

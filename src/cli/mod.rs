@@ -10,6 +10,7 @@ mod files;
 mod render;
 mod simulate;
 mod sweep;
+mod uncertainty;
 mod watch;
 
 use clap::{Parser, Subcommand};
@@ -53,6 +54,8 @@ enum Command {
         json: bool,
         #[command(flatten)]
         conditions: Conditions,
+        #[command(flatten)]
+        monte_carlo: uncertainty::McArgs,
     },
     /// Draw the reaction-coordinate (free-energy) diagram of a profile as SVG,
     /// PNG or PDF, at a journal's column width.
@@ -202,7 +205,8 @@ fn run(cli: Cli) -> Result<(), CliError> {
             profile,
             json,
             conditions,
-        } => analyze::run(&profile, &conditions, json),
+            monte_carlo,
+        } => analyze::run(&profile, &conditions, &monte_carlo, json),
         Command::Render {
             profile,
             figure,

@@ -11,6 +11,7 @@
 //! - [`selectivity`]: ratio ↔ ee ↔ ΔΔG‡ and Curtin–Hammett Boltzmann weights.
 //! - [`span`]: the energetic span model of a catalytic cycle.
 //! - [`sweep`]: selectivity across temperatures; the isoselective temperature.
+//! - [`uncertainty`]: Monte Carlo intervals from the energies' σ.
 //! - [`winstein_holness`]: exact solution of A ⇌ B, A → C, B → D.
 
 pub mod analysis;
@@ -23,6 +24,7 @@ pub mod regime;
 pub mod selectivity;
 pub mod span;
 pub mod sweep;
+pub mod uncertainty;
 pub mod winstein_holness;
 
 pub use analysis::{Analysis, PathBarrier, StepKinetics, analyze};

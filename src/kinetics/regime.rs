@@ -449,6 +449,8 @@ mod tests {
             tunnelling: Default::default(),
             standard_state: None,
             observations: vec![],
+            uncertainty: None,
+            offsets: vec![],
         }
     }
 

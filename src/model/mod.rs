@@ -8,7 +8,7 @@
 
 mod observed;
 
-pub use observed::{ObservedKind, Observation, Target};
+pub use observed::{Observation, ObservedKind, Target};
 
 use crate::units::{EnergyUnit, Temperature};
 
@@ -151,6 +151,27 @@ pub struct Model {
     pub(crate) standard_state: Option<crate::kinetics::corrections::PressureStandard>,
     /// Measurements stated in the file (`[[observed]]`).
     pub(crate) observations: Vec<Observation>,
+    /// Per-point energy uncertainty σ (model unit) and the shared systematic σ of
+    /// the transition states, from `[uncertainty]` and `sigma` keys.
+    pub(crate) uncertainty: Option<Uncertainty>,
+    /// Energy offsets added to every point (model unit): a Monte Carlo sample.
+    pub(crate) offsets: Vec<f64>,
+}
+
+/// The stated uncertainty of the energies (`[uncertainty]`).
+#[derive(Debug, Clone, PartialEq)]
+pub struct Uncertainty {
+    /// σ of each point's energy, in the model's unit (same order as the points).
+    pub sigma: Vec<f64>,
+    /// σ of a shift shared by every transition state (a method's systematic
+    /// error on barriers), in the model's unit.
+    pub systematic: f64,
+    /// Number of Monte Carlo samples.
+    pub samples: usize,
+    /// Seed of the random stream (same seed, same intervals).
+    pub seed: u64,
+    /// Central probability of the reported intervals, e.g. 0.95.
+    pub level: f64,
 }
 
 impl Model {
@@ -178,6 +199,13 @@ impl Model {
         for o in &mut self.observations {
             o.tolerance = from.convert(o.tolerance, unit);
         }
+        if let Some(u) = &mut self.uncertainty {
+            u.sigma.iter_mut().for_each(|x| *x = from.convert(*x, unit));
+            u.systematic = from.convert(u.systematic, unit);
+        }
+        self.offsets
+            .iter_mut()
+            .for_each(|x| *x = from.convert(*x, unit));
         for t in &mut self.thermo {
             *t = match *t {
                 Thermo::Fixed(g) => Thermo::Fixed(from.convert(g, unit)),
@@ -206,6 +234,40 @@ impl Model {
     /// The extras of one point (defaults when the model has none).
     pub fn extras(&self, id: PointId) -> PointExtras {
         self.extras.get(id).cloned().unwrap_or_default()
+    }
+
+    /// The same model with the Monte Carlo sample count and seed replaced
+    /// (command-line overrides); no effect without a stated uncertainty.
+    pub fn with_monte_carlo(mut self, samples: Option<usize>, seed: Option<u64>) -> Model {
+        if let Some(u) = &mut self.uncertainty {
+            if let Some(n) = samples {
+                u.samples = n.max(1);
+            }
+            if let Some(s) = seed {
+                u.seed = s;
+            }
+        }
+        self
+    }
+
+    /// The stated uncertainty of the energies, if the file gives one.
+    pub fn uncertainty(&self) -> Option<&Uncertainty> {
+        self.uncertainty.as_ref()
+    }
+
+    /// The same model with `offsets` (model unit, one per point) added to every
+    /// energy at every temperature: one Monte Carlo sample.
+    pub fn perturbed(&self, offsets: &[f64]) -> Model {
+        let mut m = self.clone();
+        m.offsets = offsets.to_vec();
+        if m.thermo.len() == m.points.len() {
+            m.refresh();
+        } else {
+            for (p, d) in m.points.iter_mut().zip(offsets) {
+                p.g += d;
+            }
+        }
+        m
     }
 
     /// The measurements stated in the file.
@@ -247,9 +309,10 @@ impl Model {
         if self.thermo.len() != self.points.len() {
             return;
         }
-        let offset = self.zero.map_or(0.0, |z| self.effective(z));
+        let shift = |i: usize| self.offsets.get(i).copied().unwrap_or(0.0);
+        let offset = self.zero.map_or(0.0, |z| self.effective(z) + shift(z));
         let values: Vec<f64> = (0..self.points.len())
-            .map(|i| self.effective(i) - offset)
+            .map(|i| self.effective(i) + shift(i) - offset)
             .collect();
         for (p, g) in self.points.iter_mut().zip(values) {
             p.g = g;

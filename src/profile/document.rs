@@ -17,7 +17,7 @@ use crate::units::{EnergyUnit, Temperature};
 /// reference temperature of tabulated free energies.
 pub const DEFAULT_TEMPERATURE_K: f64 = 298.15;
 
-const TOP_KEYS: [&str; 12] = [
+const TOP_KEYS: [&str; 13] = [
     "title",
     "temperature",
     "unit",
@@ -30,9 +30,12 @@ const TOP_KEYS: [&str; 12] = [
     "ts",
     "path",
     "observed",
+    "uncertainty",
 ];
-const STATE_KEYS: [&str; 7] = ["g", "h", "s", "label", "product", "species", "with"];
-const TS_KEYS: [&str; 7] = [
+const STATE_KEYS: [&str; 8] = [
+    "g", "h", "s", "label", "product", "species", "with", "sigma",
+];
+const TS_KEYS: [&str; 8] = [
     "g",
     "h",
     "s",
@@ -40,7 +43,9 @@ const TS_KEYS: [&str; 7] = [
     "species",
     "imaginary_frequency",
     "kappa",
+    "sigma",
 ];
+const UNCERTAINTY_KEYS: [&str; 5] = ["sigma", "systematic", "samples", "seed", "level"];
 const PATH_KEYS: [&str; 3] = ["name", "via", "cycle"];
 const NOT_YET_ENERGY: &str = "give the free energy as g, e.g. { g = 17.9 }, or enthalpy and \
      entropy as h and s; electronic energies (e) come in a later version";
@@ -76,6 +81,18 @@ pub(crate) struct RawPoint {
     pub imaginary_frequency: Option<f64>,
     /// `kappa`: explicit transmission coefficient.
     pub kappa: Option<f64>,
+    /// `sigma`: this point's energy uncertainty, in the file's unit.
+    pub sigma: Option<f64>,
+}
+
+/// The `[uncertainty]` table as written.
+#[derive(Debug, Clone, Default)]
+pub(crate) struct RawUncertainty {
+    pub sigma: Option<f64>,
+    pub systematic: Option<f64>,
+    pub samples: Option<usize>,
+    pub seed: Option<u64>,
+    pub level: Option<f64>,
 }
 
 /// One `[[path]]` table.
@@ -103,6 +120,8 @@ pub(crate) struct RawProfile {
     pub standard_state: Option<crate::kinetics::corrections::PressureStandard>,
     /// `[coreactants]`: name → concentration in mol/L, with where each is written.
     pub coreactants: Vec<(Located, f64)>,
+    /// `[uncertainty]`, when present.
+    pub uncertainty: Option<RawUncertainty>,
     /// `[[observed]]`: measurements, not yet resolved.
     pub observed: Vec<crate::profile::observed::RawObservation>,
     /// Where `[states]` is written, for file-wide warnings.
@@ -140,6 +159,7 @@ pub(crate) fn read(root: &DeTable<'_>, errors: &mut Vec<Diagnostic>) -> RawProfi
             "standard_state" => raw.standard_state = read_standard_state(value, errors),
             "coreactants" => raw.coreactants = read_coreactants(value, errors),
             "observed" => raw.observed = crate::profile::observed::read(value, errors),
+            "uncertainty" => raw.uncertainty = read_uncertainty(value, errors),
             "states" => {
                 raw.states_span = Some(value.span());
                 read_points(value, Kind::Minimum, &mut raw.points, errors);
@@ -280,6 +300,7 @@ fn read_point(
         with: Vec::new(),
         imaginary_frequency: None,
         kappa: None,
+        sigma: None,
     };
     let what_g = format!("the free energy g of '{id}'");
     match value.get_ref() {
@@ -327,6 +348,7 @@ fn read_point(
                         point.imaginary_frequency = read_frequency(v, &id, errors)
                     }
                     ("kappa", Kind::TransitionState) => point.kappa = read_kappa(v, &id, errors),
+                    ("sigma", _) => point.sigma = non_negative(v, &format!("sigma of '{id}'"), errors),
                     ("e", _) => {
                         reserved = true;
                         errors.push(fields::reserved(k, NOT_YET_ENERGY));
@@ -729,4 +751,97 @@ fn read_kappa(value: &Value<'_>, id: &str, errors: &mut Vec<Diagnostic>) -> Opti
         );
         None
     }
+}
+
+/// A finite number ≥ 0, or an error at the value.
+fn non_negative(value: &Value<'_>, what: &str, errors: &mut Vec<Diagnostic>) -> Option<f64> {
+    let x = fields::finite_number(value, what, errors)?;
+    if x >= 0.0 {
+        Some(x)
+    } else {
+        errors.push(
+            Diagnostic::error(
+                value.span(),
+                format!("{what} must not be negative, found {x}"),
+            )
+            .with_help(
+                "an uncertainty is a standard deviation in the file's unit, e.g. sigma = 1.5",
+            ),
+        );
+        None
+    }
+}
+
+fn read_uncertainty(value: &Value<'_>, errors: &mut Vec<Diagnostic>) -> Option<RawUncertainty> {
+    let DeValue::Table(table) = value.get_ref() else {
+        errors.push(
+            Diagnostic::error(
+                value.span(),
+                format!(
+                    "[uncertainty] must be a table, found {}",
+                    fields::kind_of(value.get_ref())
+                ),
+            )
+            .with_help("e.g.\n[uncertainty]\nsigma = 1.5\nsamples = 10000\nseed = 1"),
+        );
+        return None;
+    };
+    let mut u = RawUncertainty::default();
+    for (k, v) in fields::entries(table) {
+        match k.get_ref().as_ref() {
+            "sigma" => u.sigma = non_negative(v, "sigma", errors),
+            "systematic" => u.systematic = non_negative(v, "systematic", errors),
+            "samples" => {
+                let n = fields::finite_number(v, "samples", errors);
+                match n {
+                    Some(n) if n >= 10.0 && n <= 1e8 && n.fract() == 0.0 => {
+                        u.samples = Some(n as usize)
+                    }
+                    Some(n) => errors.push(
+                        Diagnostic::error(
+                            v.span(),
+                            format!(
+                                "samples must be a whole number from 10 to 100 000 000, found {n}"
+                            ),
+                        )
+                        .with_help(
+                            "10 000 gives intervals good to about a percent; e.g. samples = 10000",
+                        ),
+                    ),
+                    None => {}
+                }
+            }
+            "seed" => {
+                let n = fields::finite_number(v, "seed", errors);
+                match n {
+                    Some(n) if n >= 0.0 && n.fract() == 0.0 && n < 9.0e15 => u.seed = Some(n as u64),
+                    Some(n) => errors.push(
+                        Diagnostic::error(v.span(), format!("seed must be a whole number ≥ 0, found {n}"))
+                            .with_help("any whole number; the same seed gives the same intervals, e.g. seed = 1"),
+                    ),
+                    None => {}
+                }
+            }
+            "level" => {
+                let x = fields::finite_number(v, "level", errors);
+                match x {
+                    Some(x) if x > 0.0 && x < 1.0 => u.level = Some(x),
+                    Some(x) => errors.push(
+                        Diagnostic::error(
+                            v.span(),
+                            format!("level must lie between 0 and 1, found {x}"),
+                        )
+                        .with_help("the central probability of the intervals, e.g. level = 0.95"),
+                    ),
+                    None => {}
+                }
+            }
+            _ => errors.push(fields::unknown_key(
+                k,
+                "in [uncertainty]",
+                &UNCERTAINTY_KEYS,
+            )),
+        }
+    }
+    Some(u)
 }

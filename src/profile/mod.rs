@@ -165,6 +165,18 @@ pub fn parse(text: &str) -> Result<Parsed, Vec<Diagnostic>> {
             None => Thermo::Fixed(g),
         })
         .collect();
+    let uncertainty =
+        (raw.uncertainty.is_some() || points.iter().any(|p| p.sigma.is_some())).then(|| {
+            let u = raw.uncertainty.clone().unwrap_or_default();
+            let default = u.sigma.unwrap_or(0.0);
+            crate::model::Uncertainty {
+                sigma: points.iter().map(|p| p.sigma.unwrap_or(default)).collect(),
+                systematic: u.systematic.unwrap_or(0.0),
+                samples: u.samples.unwrap_or(10_000),
+                seed: u.seed.unwrap_or(1),
+                level: u.level.unwrap_or(0.95),
+            }
+        });
     let model = Model {
         title: raw.title,
         temperature,
@@ -186,6 +198,8 @@ pub fn parse(text: &str) -> Result<Parsed, Vec<Diagnostic>> {
         tunnelling: raw.tunnelling.unwrap_or_default(),
         standard_state: raw.standard_state,
         observations,
+        uncertainty,
+        offsets: Vec::new(),
     };
     let mut model = model;
     model.refresh();
