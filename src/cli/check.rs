@@ -23,6 +23,9 @@ struct Entry {
     unit: &'static str,
     tolerance: f64,
     consistent: bool,
+    /// Share of Monte Carlo samples in which the observation is consistent, when
+    /// the profile states an uncertainty.
+    probability_consistent: Option<f64>,
     temperature_k: f64,
 }
 
@@ -36,6 +39,7 @@ pub fn run(inputs: &[PathBuf], json: bool) -> Result<Exit, CliError> {
     for path in &files {
         match check_file(path) {
             Ok((model, comparisons, warnings)) => {
+                let mc = super::uncertainty::run(&model, &super::uncertainty::McArgs::default());
                 eprint!("{warnings}");
                 if comparisons.is_empty() {
                     eprintln!("{}: no [[observed]] measurements to check", path.display());
@@ -44,8 +48,17 @@ pub fn run(inputs: &[PathBuf], json: bool) -> Result<Exit, CliError> {
                     if !c.consistent {
                         worst = worst.max(Exit::Disagreed);
                     }
+                    let p = mc.as_ref().map(|m| m.consistent[c.index]);
                     text += &describe(path, &model, c);
-                    entries.push(entry(path, &model, c));
+                    if let Some(p) = p {
+                        text += &format!(
+                            "    probability consistent given the energies' uncertainty: {:.0} %\n",
+                            100.0 * p
+                        );
+                    }
+                    let mut e = entry(path, &model, c);
+                    e.probability_consistent = p;
+                    entries.push(e);
                 }
             }
             Err(e) => {
@@ -93,6 +106,7 @@ fn entry(path: &Path, model: &Model, c: &Comparison) -> Entry {
         unit: model.unit().name(),
         tolerance: c.tolerance,
         consistent: c.consistent,
+        probability_consistent: None,
         temperature_k: c.temperature.k(),
     }
 }

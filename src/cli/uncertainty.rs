@@ -7,7 +7,7 @@ use std::io::IsTerminal;
 
 /// Options of the uncertainty analysis (used when the profile has `[uncertainty]`
 /// or `sigma` keys).
-#[derive(Debug, Clone, clap::Args)]
+#[derive(Debug, Clone, Default, clap::Args)]
 pub struct McArgs {
     /// Number of Monte Carlo samples, overriding the profile's `samples`.
     #[arg(long, value_name = "N")]
