@@ -25,6 +25,7 @@
 
 pub mod convert;
 pub mod diag;
+pub mod export;
 pub mod figure;
 pub mod font;
 pub mod format;

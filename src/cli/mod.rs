@@ -6,6 +6,7 @@ mod analyze;
 mod check;
 mod convert;
 mod error;
+mod export;
 mod files;
 mod render;
 mod simulate;
@@ -116,6 +117,24 @@ enum Command {
     /// both ways): final distribution, product ratio, time to 50/90/99 %
     /// conversion, turnover of cycles; the time course as CSV.
     Simulate(simulate::SimulateArgs),
+    /// Write the computed numbers (barriers, rate constants, half-lives, ratio,
+    /// TOF, intervals) for the manuscript: a LaTeX file defining \eyrie{key}, a
+    /// Markdown table, or CSV — the same digits the figure and tables show.
+    Export {
+        /// The profile file (TOML; see docs/profile-format.md).
+        profile: PathBuf,
+        /// The file to write: numbers.tex, numbers.md or numbers.csv. Without it the
+        /// numbers are printed.
+        #[arg(short, long, value_name = "FILE")]
+        output: Option<PathBuf>,
+        /// tex, md or csv (default: from the output's extension, else md).
+        #[arg(long, value_name = "FORMAT")]
+        format: Option<String>,
+        #[command(flatten)]
+        conditions: Conditions,
+        #[command(flatten)]
+        monte_carlo: uncertainty::McArgs,
+    },
     /// Convert a selectivity between its three forms at one temperature: a
     /// product ratio (95:5 or 19), an ee or de (90%ee, 80%de), or a free-energy
     /// difference ΔΔG‡ (1.8 kcal/mol, 7 kJ/mol).
@@ -229,6 +248,19 @@ fn run(cli: Cli) -> Result<(), CliError> {
             code => Err(CliError::Finished(code)),
         },
         Command::Simulate(args) => simulate::run(&args),
+        Command::Export {
+            profile,
+            output,
+            format,
+            conditions,
+            monte_carlo,
+        } => export::run(
+            &profile,
+            output.as_ref(),
+            format.as_deref(),
+            &conditions,
+            &monte_carlo,
+        ),
         Command::Convert {
             value,
             json,
