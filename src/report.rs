@@ -38,6 +38,43 @@ pub struct AnalysisReport {
     pub cycles: Vec<CycleReport>,
     /// Monte Carlo intervals, when the profile states an uncertainty.
     pub uncertainty: Option<UncertaintyReport>,
+    /// The same numbers for every `[[variant]]`, side by side.
+    pub variants: Vec<VariantReport>,
+}
+
+/// One variant's key numbers beside the profile's.
+#[derive(Debug, Clone, Serialize)]
+pub struct VariantReport {
+    /// Variant name.
+    pub name: String,
+    /// Per path: barrier, rate and the kinetic isotope (or variant) effect.
+    pub paths: Vec<VariantPath>,
+    /// Product id → final fraction in the variant (null with fewer than two products).
+    pub products: Option<std::collections::BTreeMap<String, f64>>,
+    /// Per cycle: TOF of the variant, s⁻¹.
+    pub cycles: Vec<VariantCycle>,
+}
+
+/// A path in a variant.
+#[derive(Debug, Clone, Serialize)]
+pub struct VariantPath {
+    /// Path name.
+    pub name: String,
+    /// Apparent barrier in the variant, in `unit`.
+    pub apparent_barrier: f64,
+    /// Apparent rate constant in the variant, s⁻¹.
+    pub k_apparent: f64,
+    /// k(profile) / k(variant): the KIE for an isotopologue variant.
+    pub kie: f64,
+}
+
+/// A cycle in a variant.
+#[derive(Debug, Clone, Serialize)]
+pub struct VariantCycle {
+    /// Path name.
+    pub name: String,
+    /// TOF in the variant, s⁻¹.
+    pub tof: f64,
 }
 
 /// A central interval with its median.
@@ -350,6 +387,9 @@ impl AnalysisReport {
                 .map(|c| CycleReport::new(model, &c))
                 .collect(),
             uncertainty: None,
+            variants: (0..model.variants().len())
+                .map(|v| VariantReport::new(model, v, &paths_k(model)))
+                .collect(),
         }
     }
 }
@@ -375,6 +415,53 @@ impl CycleReport {
             tof_approx: det.map(|d| d.tof_approx),
             dgr: c.dgr,
             tof_control,
+        }
+    }
+}
+
+/// Each path's apparent rate constant (with its determining TS's κ), s⁻¹.
+fn paths_k(model: &Model) -> Vec<f64> {
+    let t = model.temperature();
+    (0..model.paths().len())
+        .map(|p| {
+            let b = crate::kinetics::analysis::path_barrier(model, p);
+            let kappa = b.determining_ts.map_or(1.0, |ts| {
+                crate::kinetics::analysis::transmission(model, ts, t).0
+            });
+            crate::kinetics::rate_constant(b.apparent_barrier, model.unit(), t, kappa).per_second()
+        })
+        .collect()
+}
+
+impl VariantReport {
+    fn new(model: &Model, v: usize, base_k: &[f64]) -> VariantReport {
+        let m = model.variant(v);
+        let k = paths_k(&m);
+        let start = (!m.start().is_empty()).then(|| m.start());
+        VariantReport {
+            name: model.variants()[v].name.clone(),
+            paths: (0..m.paths().len())
+                .map(|p| VariantPath {
+                    name: m.paths()[p].name.clone(),
+                    apparent_barrier: crate::kinetics::analysis::path_barrier(&m, p)
+                        .apparent_barrier,
+                    k_apparent: k[p],
+                    kie: base_k[p] / k[p],
+                })
+                .collect(),
+            products: crate::kinetics::regime::selectivity(&m, start).map(|s| {
+                s.products
+                    .iter()
+                    .map(|&(p, f)| (m.point(p).id.clone(), f))
+                    .collect()
+            }),
+            cycles: (0..m.paths().len())
+                .filter_map(|p| crate::kinetics::cycle::analyze_cycle(&m, p))
+                .map(|c| VariantCycle {
+                    name: m.paths()[c.path].name.clone(),
+                    tof: c.span.tof,
+                })
+                .collect(),
         }
     }
 }

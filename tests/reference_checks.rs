@@ -559,3 +559,60 @@ fn standard_state_and_pseudo_first_order() {
     }
     assert_eq!(checked, 15, "standard-state entries checked");
 }
+
+#[test]
+fn kinetic_isotope_effects_from_a_zero_point_variant() {
+    // Source: semiclassical zero-point KIE, one C–H stretch lost at the TS,
+    // KIE = exp(hc(ν_H − ν_D)/2kBT), ν_D = ν_H·√(μ_CH/μ_CD) (Westheimer, Chem. Rev. 1961,
+    // 61, 265; NIST atomic masses), as tabulated in tests/reference/kie.toml. The KIE is
+    // computed the way users get it: a profile with a [[variant]] zpe block.
+    use eyrie::profile::{deuterium_stretch, parse, zero_point_difference};
+    use eyrie::report::AnalysisReport;
+    let skipped: BTreeSet<&str> = [
+        // Reduced masses are intermediates of ν_D, which is checked.
+        "kie-mu-CH",
+        "kie-mu-CD",
+        // The √2 shortcut (ν_D = ν_H/√2) is a rule eyrie does not use.
+        "kie-semiclassical-2900cm-298.15K-sqrt2",
+    ]
+    .into();
+    let kie_of = |nu: f64, t: f64| {
+        let text = format!(
+            "unit = \"kcal/mol\"\ntemperature = {t}\n[states]\na = 0.0\nb = -10.0\n[ts]\nts-h = 20.0\n\
+             [[path]]\nname = \"p\"\nvia = [\"a\", \"ts-h\", \"b\"]\n\
+             [[variant]]\nname = \"D\"\nzpe = {{ ts = \"ts-h\", stretch = {nu} }}\n"
+        );
+        let model = parse(&text).unwrap().model;
+        let report = AnalysisReport::new(&model, &eyrie::kinetics::analyze(&model));
+        report.variants[0].paths[0].kie
+    };
+    let mut checked = 0;
+    for c in load("kie.toml") {
+        let id = c.id.as_str();
+        if skipped.contains(id) {
+            continue;
+        }
+        let got = if id.starts_with("kie-nuD-") {
+            deuterium_stretch(input(&c, "nu_H_cm"))
+        } else if id.starts_with("kie-dzpe-") {
+            EnergyUnit::KcalPerMol.from_j_per_mol(zero_point_difference(input(&c, "nu_H_cm")))
+        } else if id.starts_with("kie-semiclassical-") {
+            kie_of(input(&c, "nu_H_cm"), input(&c, "temperature_k"))
+        } else if id.starts_with("kie-from-ddg-") {
+            eyrie::kinetics::selectivity::ratio_from_ddg(
+                input(&c, "ddg"),
+                unit(&c),
+                temperature(&c),
+            )
+        } else {
+            panic!("reference entry {id} is neither checked nor skipped");
+        };
+        assert_close(&c, got);
+        checked += 1;
+    }
+    assert_eq!(checked, 8, "KIE entries checked");
+    // common practice: the largest primary H/D KIE is about 7 at 25 °C
+    // (tests/reference/rules_of_thumb.toml, rot-max-primary-kie, ±1).
+    let kie = kie_of(3000.0, 298.15);
+    assert!((kie - 7.0).abs() <= 1.0, "{kie}");
+}

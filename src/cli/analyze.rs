@@ -181,6 +181,35 @@ fn table(r: &AnalysisReport, decimals: usize) -> String {
             shown.join(", ")
         ));
     }
+    for v in &r.variants {
+        out.push('\n');
+        out.push_str(&format!("variant {}:\n", v.name));
+        for p in &v.paths {
+            out.push_str(&format!(
+                "  {}: barrier {} {}, k {} s⁻¹, k(profile)/k({}) = {}\n",
+                p.name,
+                e(p.apparent_barrier),
+                r.unit,
+                format::scientific(p.k_apparent),
+                v.name,
+                format::scientific(p.kie)
+            ));
+        }
+        if let Some(products) = &v.products {
+            let shares: Vec<String> = products
+                .iter()
+                .map(|(id, f)| format!("{id} {:.1} %", 100.0 * f))
+                .collect();
+            out.push_str(&format!("  products: {}\n", shares.join(", ")));
+        }
+        for c in &v.cycles {
+            out.push_str(&format!(
+                "  TOF({}) = {} s⁻¹\n",
+                c.name,
+                format::scientific(c.tof)
+            ));
+        }
+    }
     if let Some(u) = &r.uncertainty {
         let pct = 100.0 * u.level;
         out.push('\n');

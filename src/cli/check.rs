@@ -128,9 +128,11 @@ fn describe(path: &Path, model: &Model, c: &Comparison) -> String {
         ObservedKind::Ee => format!("{v:.1} % ee"),
         ObservedKind::Rate | ObservedKind::Tof => format!("{} s⁻¹", format::scientific(v)),
         ObservedKind::HalfLife => format::duration(v),
+        ObservedKind::Kie => format!("KIE {v:.2}"),
     };
     let energy = match o.kind {
         ObservedKind::Ratio | ObservedKind::Ee => "the deciding ΔΔG‡",
+        ObservedKind::Kie => "the isotopic ΔΔG‡",
         ObservedKind::Tof => "the energetic span",
         _ => "the barrier",
     };

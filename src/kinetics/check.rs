@@ -56,6 +56,8 @@ fn energy_of(kind: ObservedKind, x: f64, rt: f64) -> f64 {
         ObservedKind::Rate | ObservedKind::Tof => -rt * x.ln(),
         // k = ln 2 / t½, so ΔG‡ = RT·ln t½ + const.
         ObservedKind::HalfLife => rt * x.ln(),
+        // KIE = k_H/k_D = exp(ΔΔG‡/RT).
+        ObservedKind::Kie => rt * x.ln(),
     }
 }
 
@@ -64,6 +66,14 @@ fn compare(model: &Model, index: usize, o: &Observation) -> Comparison {
     let m = model.clone().with_temperature(t);
     let rt = t.rt(m.unit());
     let name = |p: PointId| m.point(p).id.clone();
+    if let (ObservedKind::Kie, Some(v)) = (o.kind, o.variant) {
+        let heavy = model.variant(v).with_temperature(t);
+        let k = |m: &Model| target_rate(m, o.target, t);
+        let (label, kh) = k(&m);
+        let (_, kd) = k(&heavy);
+        let quantity = format!("KIE {label} ({})", m.variants()[v].name);
+        return finish(index, o, quantity, kh / kd, rt, t);
+    }
     let (quantity, predicted) = match o.target {
         Target::Products(a, b) => {
             let start = (!m.start().is_empty()).then(|| m.start());
@@ -107,6 +117,42 @@ fn compare(model: &Model, index: usize, o: &Observation) -> Comparison {
             (format!("TOF({})", m.paths()[p].name), tof)
         }
     };
+    finish(index, o, quantity, predicted, rt, t)
+}
+
+/// The rate constant (s⁻¹) a rate-type observation refers to, and its label.
+fn target_rate(m: &Model, target: Target, t: Temperature) -> (String, f64) {
+    let name = |p: PointId| m.point(p).id.clone();
+    match target {
+        Target::Path(p) => {
+            let b = path_barrier(m, p);
+            let kappa = b.determining_ts.map_or(1.0, |ts| transmission(m, ts, t).0);
+            let k = rate_constant(b.apparent_barrier, m.unit(), t, kappa);
+            (format!("k({})", m.paths()[p].name), k.per_second())
+        }
+        Target::Ts(ts) => {
+            let a = analyze(m);
+            match a.steps.iter().find(|s| s.step.ts == Some(ts)) {
+                Some(s) => (
+                    format!("k({} → {})", name(s.step.from), name(s.step.to)),
+                    s.k_forward.per_second(),
+                ),
+                None => (format!("k({})", name(ts)), f64::NAN),
+            }
+        }
+        _ => (String::new(), f64::NAN),
+    }
+}
+
+/// The comparison once the prediction is known.
+fn finish(
+    index: usize,
+    o: &Observation,
+    quantity: String,
+    predicted: f64,
+    rt: f64,
+    t: Temperature,
+) -> Comparison {
     let valid = match o.kind {
         ObservedKind::Ee => predicted.is_finite() && predicted.abs() < 100.0,
         _ => predicted.is_finite() && predicted > 0.0,

@@ -451,6 +451,7 @@ mod tests {
             observations: vec![],
             uncertainty: None,
             offsets: vec![],
+            variants: vec![],
         }
     }
 

@@ -154,8 +154,21 @@ pub struct Model {
     /// Per-point energy uncertainty σ (model unit) and the shared systematic σ of
     /// the transition states, from `[uncertainty]` and `sigma` keys.
     pub(crate) uncertainty: Option<Uncertainty>,
-    /// Energy offsets added to every point (model unit): a Monte Carlo sample.
+    /// Energy offsets added to every point (model unit): a variant's shifts or a
+    /// Monte Carlo sample.
     pub(crate) offsets: Vec<f64>,
+    /// Variants of the mechanism (`[[variant]]`).
+    pub(crate) variants: Vec<Variant>,
+}
+
+/// The same mechanism with some energies changed (`[[variant]]`): an
+/// isotopologue, another catalyst, another solvent.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Variant {
+    /// Name used in reports and for `kind = "kie"` observations.
+    pub name: String,
+    /// Energy shift of each changed point, in the model's unit.
+    pub shifts: Vec<(PointId, f64)>,
 }
 
 /// The stated uncertainty of the energies (`[uncertainty]`).
@@ -259,7 +272,11 @@ impl Model {
     /// energy at every temperature: one Monte Carlo sample.
     pub fn perturbed(&self, offsets: &[f64]) -> Model {
         let mut m = self.clone();
-        m.offsets = offsets.to_vec();
+        // Offsets add up: a Monte Carlo sample of a variant keeps the variant's shifts.
+        m.offsets.resize(m.points.len(), 0.0);
+        for (o, d) in m.offsets.iter_mut().zip(offsets) {
+            *o += d;
+        }
         if m.thermo.len() == m.points.len() {
             m.refresh();
         } else {
@@ -267,6 +284,23 @@ impl Model {
                 p.g += d;
             }
         }
+        m
+    }
+
+    /// The variants stated in the file.
+    pub fn variants(&self) -> &[Variant] {
+        &self.variants
+    }
+
+    /// The model of variant `i`: the same mechanism with its energies shifted.
+    /// Variants of a variant are not kept.
+    pub fn variant(&self, i: usize) -> Model {
+        let mut offsets = vec![0.0; self.points.len()];
+        for &(p, d) in &self.variants[i].shifts {
+            offsets[p] += d;
+        }
+        let mut m = self.perturbed(&offsets);
+        m.variants.clear();
         m
     }
 

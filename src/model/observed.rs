@@ -18,6 +18,8 @@ pub enum ObservedKind {
     HalfLife,
     /// A turnover frequency, s⁻¹.
     Tof,
+    /// A kinetic isotope effect k(profile)/k(variant) of a path or step.
+    Kie,
 }
 
 impl ObservedKind {
@@ -29,6 +31,7 @@ impl ObservedKind {
             ObservedKind::Rate => "rate",
             ObservedKind::HalfLife => "half-life",
             ObservedKind::Tof => "tof",
+            ObservedKind::Kie => "kie",
         }
     }
 }
@@ -61,6 +64,8 @@ pub struct Observation {
     pub uncertainty: Option<f64>,
     /// Allowed error of the deciding energy, in the model's unit.
     pub tolerance: f64,
+    /// For a KIE: the variant (index into the model's variants) whose rate divides.
+    pub variant: Option<usize>,
     /// Temperature of the measurement (the profile's when `None`).
     pub temperature: Option<Temperature>,
     /// Where the `[[observed]]` table is written, for messages.

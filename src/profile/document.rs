@@ -17,7 +17,7 @@ use crate::units::{EnergyUnit, Temperature};
 /// reference temperature of tabulated free energies.
 pub const DEFAULT_TEMPERATURE_K: f64 = 298.15;
 
-const TOP_KEYS: [&str; 13] = [
+const TOP_KEYS: [&str; 14] = [
     "title",
     "temperature",
     "unit",
@@ -31,6 +31,7 @@ const TOP_KEYS: [&str; 13] = [
     "path",
     "observed",
     "uncertainty",
+    "variant",
 ];
 const STATE_KEYS: [&str; 8] = [
     "g", "h", "s", "label", "product", "species", "with", "sigma",
@@ -120,6 +121,8 @@ pub(crate) struct RawProfile {
     pub standard_state: Option<crate::kinetics::corrections::PressureStandard>,
     /// `[coreactants]`: name → concentration in mol/L, with where each is written.
     pub coreactants: Vec<(Located, f64)>,
+    /// `[[variant]]`: changed copies of the mechanism, not yet resolved.
+    pub variants: Vec<crate::profile::variant::RawVariant>,
     /// `[uncertainty]`, when present.
     pub uncertainty: Option<RawUncertainty>,
     /// `[[observed]]`: measurements, not yet resolved.
@@ -160,6 +163,7 @@ pub(crate) fn read(root: &DeTable<'_>, errors: &mut Vec<Diagnostic>) -> RawProfi
             "coreactants" => raw.coreactants = read_coreactants(value, errors),
             "observed" => raw.observed = crate::profile::observed::read(value, errors),
             "uncertainty" => raw.uncertainty = read_uncertainty(value, errors),
+            "variant" => raw.variants = crate::profile::variant::read(value, errors),
             "states" => {
                 raw.states_span = Some(value.span());
                 read_points(value, Kind::Minimum, &mut raw.points, errors);

@@ -18,12 +18,14 @@ mod network;
 mod observed;
 mod suggest;
 mod syntax;
+mod variant;
 
 use crate::diag::Diagnostic;
 use crate::model::{Kind, Model, Path, Point, Thermo};
 use crate::units::Temperature;
 
 pub use document::DEFAULT_TEMPERATURE_K;
+pub use variant::{deuterium_stretch, zero_point_difference};
 
 /// A profile that passed validation, with the warnings it raised.
 #[derive(Debug, Clone)]
@@ -72,10 +74,17 @@ pub fn parse(text: &str) -> Result<Parsed, Vec<Diagnostic>> {
     let (paths, paths_ok) = network::resolve_paths(&points, &raw.paths, &mut errors);
     let zero = energy::resolve_zero(raw.zero.as_ref(), &points, &mut errors);
     let start = network::resolve_start(raw.start.as_deref().unwrap_or(&[]), &points, &mut errors);
+    let variants = variant::resolve(
+        std::mem::take(&mut raw.variants),
+        &points,
+        raw.unit.as_ref().map(|(u, _)| *u),
+        &mut errors,
+    );
     let observations = observed::resolve(
         std::mem::take(&mut raw.observed),
         &points,
         &paths,
+        &variants,
         raw.unit.as_ref().map(|(u, _)| *u),
         &mut errors,
     );
@@ -200,6 +209,7 @@ pub fn parse(text: &str) -> Result<Parsed, Vec<Diagnostic>> {
         observations,
         uncertainty,
         offsets: Vec::new(),
+        variants,
     };
     let mut model = model;
     model.refresh();

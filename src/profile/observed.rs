@@ -13,7 +13,7 @@ use crate::profile::network::ResolvedPath;
 use crate::profile::suggest;
 use crate::units::{EnergyUnit, Temperature};
 
-const KEYS: [&str; 10] = [
+const KEYS: [&str; 11] = [
     "kind",
     "name",
     "products",
@@ -24,6 +24,7 @@ const KEYS: [&str; 10] = [
     "uncertainty",
     "tolerance",
     "temperature",
+    "variant",
 ];
 const KINDS: [&str; 6] = ["ratio", "ee", "rate", "half-life", "tof", "kie"];
 
@@ -45,6 +46,7 @@ pub(crate) struct RawObservation {
     uncertainty: Option<f64>,
     tolerance: Option<f64>,
     temperature: Option<Temperature>,
+    variant: Option<Located>,
 }
 
 /// Reads the `observed` array of tables.
@@ -117,20 +119,19 @@ fn read_one(
                     "rate" => Some(ObservedKind::Rate),
                     "half-life" => Some(ObservedKind::HalfLife),
                     "tof" => Some(ObservedKind::Tof),
-                    "kie" => {
-                        errors.push(
-                            Diagnostic::error(v.span(), "kind \"kie\" is not yet supported in this version")
-                                .with_help("isotope effects need variant blocks, which come in a later version; compare the two rates with kind = \"rate\" for now"),
-                        );
-                        None
-                    }
+                    "kie" => Some(ObservedKind::Kie),
                     other => {
                         let hint = suggest::nearest(other, KINDS.iter().copied())
                             .map(|s| format!("did you mean '{s}'? "))
                             .unwrap_or_default();
                         errors.push(
-                            Diagnostic::error(v.span(), format!("unknown kind of measurement '{other}'"))
-                                .with_help(format!("{hint}use one of: ratio, ee, rate, half-life, tof")),
+                            Diagnostic::error(
+                                v.span(),
+                                format!("unknown kind of measurement '{other}'"),
+                            )
+                            .with_help(format!(
+                                "{hint}use one of: ratio, ee, rate, half-life, tof, kie"
+                            )),
                         );
                         None
                     }
@@ -160,6 +161,7 @@ fn read_one(
                 }
             }
             "temperature" => o.temperature = read_temperature(v, errors),
+            "variant" => o.variant = located(v, "variant", "variant = \"D\"", errors),
             _ => errors.push(fields::unknown_key(
                 k,
                 &format!("in observation {number}"),
@@ -300,6 +302,7 @@ pub(crate) fn resolve(
     raw: Vec<RawObservation>,
     points: &[RawPoint],
     paths: &[ResolvedPath],
+    variants: &[crate::model::Variant],
     unit: Option<EnergyUnit>,
     errors: &mut Vec<Diagnostic>,
 ) -> Vec<Observation> {
@@ -382,7 +385,7 @@ pub(crate) fn resolve(
                 }
                 Target::Products(a, b)
             }
-            ObservedKind::Rate | ObservedKind::HalfLife => {
+            ObservedKind::Rate | ObservedKind::HalfLife | ObservedKind::Kie => {
                 match (&o.path, &o.ts) {
                     (Some(p), None) => match path_index(p, errors) {
                         Some(i) => Target::Path(i),
@@ -442,6 +445,48 @@ pub(crate) fn resolve(
                 EnergyUnit::KcalPerMol.convert(DEFAULT_TOLERANCE_KCAL, u)
             })
         });
+        let variant = match (kind, &o.variant) {
+            (ObservedKind::Kie, Some(v)) => match variants.iter().position(|x| x.name == v.text) {
+                Some(i) => Some(i),
+                None => {
+                    let help =
+                        match suggest::nearest(&v.text, variants.iter().map(|x| x.name.as_str())) {
+                            Some(s) => format!("did you mean '{s}'?"),
+                            None => {
+                                "name a [[variant]] of this profile, e.g. the deuterated one".into()
+                            }
+                        };
+                    errors.push(
+                        Diagnostic::error(
+                            v.span.clone(),
+                            format!("no variant is named '{}'", v.text),
+                        )
+                        .with_help(help),
+                    );
+                    continue;
+                }
+            },
+            (ObservedKind::Kie, None) => {
+                errors.push(
+                    Diagnostic::error(
+                        kind_span,
+                        "a measured kie needs the variant it compares with",
+                    )
+                    .with_help(
+                        "add variant = \"D\" (a [[variant]] name): KIE = k(profile) / k(variant)",
+                    ),
+                );
+                continue;
+            }
+            (_, Some(v)) => {
+                errors.push(
+                    Diagnostic::error(v.span.clone(), "variant applies to kind = \"kie\" only")
+                        .with_help("remove it, or make the measurement a kie"),
+                );
+                continue;
+            }
+            (_, None) => None,
+        };
         let Some((value, _)) = o.value else { continue };
         out.push(Observation {
             name: o.name,
@@ -450,6 +495,7 @@ pub(crate) fn resolve(
             value,
             uncertainty: o.uncertainty.map(f64::abs),
             tolerance,
+            variant,
             temperature: o.temperature,
             span: o.span,
         });
