@@ -469,3 +469,32 @@ fn enthalpy_and_entropy_follow_the_temperature() {
     let want = 12.0 + 273.15 * 0.014;
     assert!((step["barrier_forward"].as_f64().unwrap() - want).abs() < 1e-9);
 }
+
+#[test]
+fn analyze_over_a_folder_reports_a_bad_file_and_finishes_the_rest() {
+    let dir = scratch();
+    let good = std::fs::read_to_string(repo("profiles/conformers.toml")).unwrap();
+    write(dir.path(), "a.toml", &good);
+    write(
+        dir.path(),
+        "b.toml",
+        "unit = \"kcal/mol\"\n[states]\nx = 0.0\n[[path]]\nvia = [\"x\", \"y\"]\n",
+    );
+    write(dir.path(), "c.toml", &good);
+    let out = eyrie(&["analyze", ".", "--json"], dir.path());
+    assert_eq!(out.status.code(), Some(2), "the worst code wins");
+    let v: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
+    let files: Vec<&str> = v
+        .as_array()
+        .unwrap()
+        .iter()
+        .map(|e| e["file"].as_str().unwrap())
+        .collect();
+    assert_eq!(files, ["./a.toml", "./c.toml"]);
+    assert!(v[0]["report"]["steps"].is_array());
+    let err = text(&out.stderr);
+    assert!(
+        err.contains("b.toml:5:") && err.contains("analysed 2 of 3"),
+        "{err}"
+    );
+}

@@ -11,11 +11,65 @@ use std::path::Path;
 
 /// Runs the analysis and prints it.
 pub fn run(
-    path: &Path,
+    inputs: &[std::path::PathBuf],
     conditions: &super::Conditions,
     monte_carlo: &super::uncertainty::McArgs,
     json: bool,
 ) -> Result<(), CliError> {
+    let paths = files::expand(inputs)?;
+    if let [path] = &paths[..] {
+        if !inputs[0].is_dir() {
+            let report = analyze_file(path, conditions, monte_carlo)?;
+            if json {
+                let text = serde_json::to_string_pretty(&report).expect("report is plain data");
+                println!("{text}");
+            } else {
+                print!("{}", table(&report, report_decimals(&report)));
+            }
+            return Ok(());
+        }
+    }
+    // Several profiles: each is analysed on its own; a bad one is reported by
+    // name, the rest still run, and the exit code is the worst seen.
+    let mut worst = super::error::Exit::Success;
+    let mut reports = Vec::new();
+    for path in &paths {
+        match analyze_file(path, conditions, monte_carlo) {
+            Ok(report) => {
+                if !json {
+                    println!("== {} ==", path.display());
+                    print!("{}\n", table(&report, report_decimals(&report)));
+                }
+                reports.push(
+                    serde_json::json!({ "file": path.display().to_string(), "report": report }),
+                );
+            }
+            Err(e) => {
+                e.report();
+                worst = worst.max(e.exit());
+            }
+        }
+    }
+    if json {
+        let text = serde_json::to_string_pretty(&reports).expect("report is plain data");
+        println!("{text}");
+    }
+    eprintln!("analysed {} of {} profile(s)", reports.len(), paths.len());
+    match worst {
+        super::error::Exit::Success => Ok(()),
+        code => Err(CliError::Finished(code)),
+    }
+}
+
+fn report_decimals(r: &AnalysisReport) -> usize {
+    eyrie::units::EnergyUnit::parse(r.unit).map_or(1, |u| u.display_decimals())
+}
+
+fn analyze_file(
+    path: &Path,
+    conditions: &super::Conditions,
+    monte_carlo: &super::uncertainty::McArgs,
+) -> Result<AnalysisReport, CliError> {
     let (parsed, warnings) = files::load(path)?;
     eprint!("{warnings}");
     let model = conditions.apply(parsed.model);
@@ -23,13 +77,7 @@ pub fn run(
     let mut report = AnalysisReport::new(&model, &analysis);
     report.uncertainty = super::uncertainty::run(&model, monte_carlo)
         .map(|mc| eyrie::report::UncertaintyReport::new(&model, &mc));
-    if json {
-        let text = serde_json::to_string_pretty(&report).expect("report is plain data");
-        println!("{text}");
-    } else {
-        print!("{}", table(&report, model.unit().display_decimals()));
-    }
-    Ok(())
+    Ok(report)
 }
 
 /// The human-readable report.

@@ -48,8 +48,10 @@ enum Command {
     /// Eyring rate constants and half-lives of every step in both directions,
     /// and the apparent barrier of every path with the states that set it.
     Analyze {
-        /// The profile file (TOML; see docs/profile-format.md).
-        profile: PathBuf,
+        /// The profile file (TOML; see docs/profile-format.md), or several files or
+        /// folders of *.toml profiles (then JSON is a list of {file, report}).
+        #[arg(required = true)]
+        profiles: Vec<PathBuf>,
         /// Print machine-readable JSON instead of the table (fields in docs/json.md).
         #[arg(long)]
         json: bool,
@@ -221,11 +223,11 @@ pub fn main() -> ExitCode {
 fn run(cli: Cli) -> Result<(), CliError> {
     match cli.command {
         Command::Analyze {
-            profile,
+            profiles,
             json,
             conditions,
             monte_carlo,
-        } => analyze::run(&profile, &conditions, &monte_carlo, json),
+        } => analyze::run(&profiles, &conditions, &monte_carlo, json),
         Command::Render {
             profile,
             figure,
