@@ -65,7 +65,7 @@ fn png_has_the_pixel_size_of_width_and_dpi() {
             945,
             300,
         ),
-        (&["--size", "double", "--dpi", "150"], 1033, 591, 150), // 175 × 100 mm
+        (&["--size", "double", "--dpi", "150"], 1033, 531, 150), // 175 × 90 mm
     ];
     for (extra, w, h, dpi) in cases {
         let bytes = render(dir.path(), "fig.png", extra);

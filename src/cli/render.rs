@@ -4,6 +4,7 @@
 
 use super::error::CliError;
 use super::files;
+use eyrie::figure::AnnotationKind;
 use eyrie::layout::Style;
 use eyrie::model::Model;
 use std::path::{Path, PathBuf};
@@ -47,24 +48,40 @@ impl Format {
     }
 }
 
-/// Page-size presets after the usual two-column journal page. The journal
-/// widths in the help are as their guides for authors give them (from memory:
-/// the help tells users to check their journal's guide).
+/// Page and type sizes, after the usual two-column journal page. The
+/// journal widths in the help are as their guides for authors give them (from
+/// memory: the help tells users to check their journal's guide).
 #[derive(Debug, Clone, Copy, PartialEq, Eq, clap::ValueEnum)]
 pub(crate) enum Size {
-    /// 85 × 65 mm, one column.
+    /// 85 × 65 mm, 7 pt type: one column.
     Single,
-    /// 175 × 100 mm, the full text width.
+    /// 175 × 90 mm, 8 pt type: the full text width.
     Double,
+    /// 240 × 135 mm, 14 pt type, heavier lines: a 16:9 slide.
+    Slide,
+    /// 300 × 200 mm, 22 pt type, heavy lines: a poster panel.
+    Poster,
 }
 
 impl Size {
-    fn mm(self) -> (f64, f64) {
+    /// The layout preset (`layout::PRESETS`) this size names.
+    fn preset(self) -> &'static str {
         match self {
-            Size::Single => (85.0, 65.0),
-            Size::Double => (175.0, 100.0),
+            Size::Single => "article",
+            Size::Double => "article-wide",
+            Size::Slide => "slide",
+            Size::Poster => "poster",
         }
     }
+}
+
+/// How the connectors between bars are drawn.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, clap::ValueEnum)]
+pub(crate) enum Connectors {
+    /// Dashed straight lines from bar end to bar end.
+    Straight,
+    /// Smooth curves, level at every bar (no overshoot between them).
+    Smooth,
 }
 
 /// Where and how to draw the figure (shared by `render` and `watch`).
@@ -79,14 +96,16 @@ pub(crate) struct FigureOptions {
     /// Format of the default output file when -o is not given: svg, png or pdf.
     #[arg(long, value_enum, value_name = "FORMAT", conflicts_with = "output")]
     format: Option<Format>,
-    /// Page size at the printed size: "single" is 85 × 65 mm, one column of a
-    /// two-column journal page (ACS 3.25 in ≈ 83 mm, RSC 83 mm); "double" is
-    /// 175 × 100 mm, the full text width (ACS 7 in ≈ 178 mm, RSC 171 mm). Check
-    /// your journal's guide for authors. --width and --height override it.
-    #[arg(long, value_enum, default_value = "single", value_name = "PRESET")]
+    /// Page and type size at the printed size: "single" is 85 × 65 mm with 7 pt
+    /// type, one column of a two-column journal page (ACS 3.25 in ≈ 83 mm, RSC
+    /// 83 mm); "double" is 175 × 90 mm with 8 pt type, the full text width (ACS
+    /// 7 in ≈ 178 mm, RSC 171 mm); "slide" 240 × 135 mm; "poster" 300 × 200 mm.
+    /// Check your journal's guide for authors. --width and --height override the
+    /// page size.
+    #[arg(long, value_enum, default_value = "single", value_name = "SIZE")]
     size: Size,
-    /// Figure width in mm (default from --size: 85 mm). Type stays 7–8 pt, so a
-    /// wider figure has more room, not bigger letters.
+    /// Figure width in mm (default from --size: 85 mm). The type keeps its size,
+    /// so a wider figure has more room, not bigger letters.
     #[arg(long, value_name = "MM", value_parser = parse_mm)]
     width: Option<f64>,
     /// Figure height in mm (default from --size: 65 mm).
@@ -98,14 +117,38 @@ pub(crate) struct FigureOptions {
     #[arg(long, value_name = "N", default_value_t = 600,
           value_parser = clap::value_parser!(u32).range(50..=4800))]
     dpi: u32,
+    /// Numbers computed from the profile to draw on the figure, comma-separated:
+    /// "barriers" (ΔG‡ arrow of each path's apparent barrier), "selectivity"
+    /// (ΔΔG‡ bracket between the competing TSs with the predicted ratio),
+    /// "rate-determining" (shade the states that set the slowest path), "span"
+    /// (energetic span δE and TOF of each catalytic cycle), or "all".
+    #[arg(long, value_name = "LIST", value_delimiter = ',')]
+    annotate: Vec<String>,
+    /// Connectors between the bars: straight (dashed lines) or smooth (curves
+    /// through each TS, level at every bar).
+    #[arg(long, value_enum, default_value = "straight", value_name = "STYLE")]
+    connectors: Connectors,
+    /// Draw a thin line at zero energy.
+    #[arg(long)]
+    zero_line: bool,
+    /// Cut the energy axis when a state lies far below the rest (e.g. a very
+    /// exergonic product), so the barriers keep their room.
+    #[arg(long)]
+    axis_break: bool,
+    /// Decimals of every energy on the figure (default: 1 for kcal/mol and
+    /// kJ/mol, 2 for eV, 4 for hartree).
+    #[arg(long, value_name = "N", value_parser = clap::value_parser!(u8).range(0..=6))]
+    decimals: Option<u8>,
 }
 
-/// The figure options resolved against an input: file, format, page and dpi.
+/// The figure options resolved against an input: file, format, content,
+/// page and dpi.
 #[derive(Debug, Clone)]
 pub(crate) struct Target {
     /// The file to write.
     pub output: PathBuf,
     format: Format,
+    content: eyrie::figure::FigureOptions,
     style: Style,
     dpi: u32,
 }
@@ -121,12 +164,20 @@ impl FigureOptions {
                 (default_output(input, format), format)
             }
         };
-        let (w, h) = self.size.mm();
-        let style = Style {
-            width_mm: self.width.unwrap_or(w),
-            height_mm: self.height.unwrap_or(h),
-            ..Style::default()
+        let content = eyrie::figure::FigureOptions {
+            annotations: annotations(&self.annotate)?,
+            connector: match self.connectors {
+                Connectors::Straight => eyrie::layout::Connector::Straight,
+                Connectors::Smooth => eyrie::layout::Connector::Smooth,
+            },
+            zero_line: self.zero_line,
+            axis_break: self.axis_break,
+            decimals: self.decimals.map(usize::from),
+            preset: self.size.preset().into(),
         };
+        let mut style = content.style().map_err(CliError::Usage)?;
+        style.width_mm = self.width.unwrap_or(style.width_mm);
+        style.height_mm = self.height.unwrap_or(style.height_mm);
         if format == Format::Png {
             let (px_w, px_h) =
                 eyrie::render::pixel_size(style.width_mm, style.height_mm, f64::from(self.dpi));
@@ -149,16 +200,36 @@ impl FigureOptions {
         Ok(Target {
             output,
             format,
+            content,
             style,
             dpi: self.dpi,
         })
     }
 }
 
+/// The annotation kinds named on the command line ("all" for every one).
+fn annotations(names: &[String]) -> Result<Vec<AnnotationKind>, CliError> {
+    let mut kinds = Vec::new();
+    for name in names.iter().map(|n| n.trim()).filter(|n| !n.is_empty()) {
+        if name == "all" {
+            kinds.extend(AnnotationKind::ALL);
+        } else if let Some(kind) = AnnotationKind::from_name(name) {
+            kinds.push(kind);
+        } else {
+            let known: Vec<&str> = AnnotationKind::ALL.iter().map(|k| k.name()).collect();
+            return Err(CliError::Usage(format!(
+                "unknown annotation '{name}' in --annotate: choose from {}, or all",
+                known.join(", ")
+            )));
+        }
+    }
+    Ok(kinds)
+}
+
 impl Target {
     /// The figure of `model` as the bytes of the output file.
     pub fn draw(&self, model: &Model) -> Result<Vec<u8>, CliError> {
-        let spec = eyrie::figure::diagram_spec(model, &eyrie::figure::FigureOptions::default());
+        let spec = eyrie::figure::diagram_spec(model, &self.content);
         let scene = eyrie::layout::layout(&spec, &self.style);
         let bytes = match self.format {
             Format::Svg => Ok(eyrie::render::to_svg(&scene).into_bytes()),
@@ -224,6 +295,18 @@ mod tests {
         let e = Format::of(Path::new("fig.jpg")).unwrap_err().to_string();
         assert!(e.contains(".svg, .png or .pdf"), "{e}");
         assert!(Format::of(Path::new("fig")).is_err());
+    }
+
+    #[test]
+    fn annotations_by_name_or_all() {
+        let names = |v: &[&str]| v.iter().map(|s| s.to_string()).collect::<Vec<_>>();
+        assert_eq!(
+            annotations(&names(&["barriers", " span"])).unwrap(),
+            vec![AnnotationKind::Barriers, AnnotationKind::Span]
+        );
+        assert_eq!(annotations(&names(&["all"])).unwrap().len(), 4);
+        let e = annotations(&names(&["barrier"])).unwrap_err().to_string();
+        assert!(e.contains("rate-determining"), "{e}");
     }
 
     #[test]
