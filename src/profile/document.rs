@@ -188,7 +188,10 @@ pub(crate) fn read(root: &DeTable<'_>, errors: &mut Vec<Diagnostic>) -> RawProfi
     raw
 }
 
-fn read_temperature(value: &Value<'_>, errors: &mut Vec<Diagnostic>) -> Option<Temperature> {
+pub(crate) fn read_temperature(
+    value: &Value<'_>,
+    errors: &mut Vec<Diagnostic>,
+) -> Option<Temperature> {
     let help = "write a number in kelvin (temperature = 298.15) or text with a unit \
                 (temperature = \"25 C\", \"-78 C\", \"298.15 K\")";
     let result = match value.get_ref() {

@@ -153,3 +153,37 @@ pub(crate) fn unknown_key(key: &Key<'_>, place: &str, allowed: &[&str]) -> Diagn
 pub(crate) fn file_start() -> Range<usize> {
     0..0
 }
+
+/// The tables of an array of tables (`[[observed]]`, `[[variant]]`), each with
+/// its span; anything else is reported with `help` and left out.
+pub(crate) fn array_of_tables<'a, 'i>(
+    value: &'a Value<'i>,
+    name: &str,
+    help: &str,
+    errors: &mut Vec<Diagnostic>,
+) -> Vec<(&'a DeTable<'i>, Range<usize>)> {
+    let DeValue::Array(items) = value.get_ref() else {
+        errors.push(
+            Diagnostic::error(
+                value.span(),
+                format!("{name} tables are written [[{name}]], with double brackets"),
+            )
+            .with_help(help.to_string()),
+        );
+        return Vec::new();
+    };
+    let mut out = Vec::new();
+    for item in items.iter() {
+        match item.get_ref() {
+            DeValue::Table(table) => out.push((table, item.span())),
+            other => errors.push(
+                Diagnostic::error(
+                    item.span(),
+                    format!("each [[{name}]] must be a table, found {}", kind_of(other)),
+                )
+                .with_help(help.to_string()),
+            ),
+        }
+    }
+    out
+}

@@ -133,7 +133,7 @@ pub(crate) fn resolve_paths(
     (resolved, all_ok)
 }
 
-fn unknown_id(item: &Located, points: &[RawPoint]) -> Diagnostic {
+pub(crate) fn unknown_id(item: &Located, points: &[RawPoint]) -> Diagnostic {
     let d = Diagnostic::error(
         item.span.clone(),
         format!("unknown id '{}': it is not in [states] or [ts]", item.text),

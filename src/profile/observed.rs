@@ -53,34 +53,11 @@ pub(crate) struct RawObservation {
 pub(crate) fn read(value: &Value<'_>, errors: &mut Vec<Diagnostic>) -> Vec<RawObservation> {
     let help = "write each measurement as its own table:\n[[observed]]\nkind = \"ratio\"\n\
                 products = [\"pa\", \"pb\"]\nvalue = 4.0\ntolerance = 1.0";
-    let DeValue::Array(items) = value.get_ref() else {
-        errors.push(
-            Diagnostic::error(
-                value.span(),
-                "measurements are written [[observed]], with double brackets",
-            )
-            .with_help(help),
-        );
-        return Vec::new();
-    };
-    let mut out = Vec::new();
-    for item in items.iter() {
-        let DeValue::Table(table) = item.get_ref() else {
-            errors.push(
-                Diagnostic::error(
-                    item.span(),
-                    format!(
-                        "each [[observed]] must be a table, found {}",
-                        fields::kind_of(item.get_ref())
-                    ),
-                )
-                .with_help(help),
-            );
-            continue;
-        };
-        out.push(read_one(table, item.span(), out.len() + 1, errors));
-    }
-    out
+    fields::array_of_tables(value, "observed", help, errors)
+        .into_iter()
+        .enumerate()
+        .map(|(i, (table, span))| read_one(table, span, i + 1, errors))
+        .collect()
 }
 
 fn located(
@@ -160,7 +137,7 @@ fn read_one(
                     o.tolerance = None;
                 }
             }
-            "temperature" => o.temperature = read_temperature(v, errors),
+            "temperature" => o.temperature = crate::profile::document::read_temperature(v, errors),
             "variant" => o.variant = located(v, "variant", "variant = \"D\"", errors),
             _ => errors.push(fields::unknown_key(
                 k,
@@ -221,36 +198,6 @@ fn read_products(value: &Value<'_>, errors: &mut Vec<Diagnostic>) -> Option<Vec<
         return None;
     }
     Some(ids)
-}
-
-fn read_temperature(value: &Value<'_>, errors: &mut Vec<Diagnostic>) -> Option<Temperature> {
-    let result = match value.get_ref() {
-        DeValue::String(s) => Temperature::parse(s),
-        other => match fields::as_number(other) {
-            Some(k) => Temperature::try_kelvin(k),
-            None => {
-                errors.push(
-                    Diagnostic::error(
-                        value.span(),
-                        format!(
-                            "the temperature must be a number or text, found {}",
-                            fields::kind_of(other)
-                        ),
-                    )
-                    .with_help("e.g. temperature = \"-78 C\" or temperature = 298.15"),
-                );
-                return None;
-            }
-        },
-    };
-    result
-        .map_err(|e| {
-            errors.push(
-                Diagnostic::error(value.span(), e.to_string())
-                    .with_help("e.g. temperature = \"-78 C\" or 298.15"),
-            )
-        })
-        .ok()
 }
 
 /// A measured value: a number, or for half-lives also a duration text.
@@ -314,21 +261,11 @@ pub(crate) fn resolve(
             continue;
         };
         let point = |l: &Located, errors: &mut Vec<Diagnostic>| -> Option<usize> {
-            match points.iter().position(|p| p.id == l.text) {
-                Some(i) => Some(i),
-                None => {
-                    let help = match suggest::nearest(&l.text, points.iter().map(|p| p.id.as_str()))
-                    {
-                        Some(s) => format!("did you mean '{s}'?"),
-                        None => "use an id from [states] or [ts]".into(),
-                    };
-                    errors.push(
-                        Diagnostic::error(l.span.clone(), format!("unknown id '{}'", l.text))
-                            .with_help(help),
-                    );
-                    None
-                }
+            let found = points.iter().position(|p| p.id == l.text);
+            if found.is_none() {
+                errors.push(crate::profile::network::unknown_id(l, points));
             }
+            found
         };
         let path_index = |l: &Located, errors: &mut Vec<Diagnostic>| -> Option<usize> {
             match paths.iter().position(|p| p.name == l.text) {

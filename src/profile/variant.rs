@@ -12,7 +12,6 @@ use crate::diag::Diagnostic;
 use crate::model::{Kind, Variant};
 use crate::profile::document::RawPoint;
 use crate::profile::fields::{self, Value};
-use crate::profile::suggest;
 use crate::units::{AVOGADRO, EnergyUnit, PLANCK, SPEED_OF_LIGHT};
 
 const KEYS: [&str; 4] = ["name", "g", "shift", "zpe"];
@@ -59,27 +58,11 @@ pub fn deuterium_stretch(stretch_cm: f64) -> f64 {
 /// Reads the `variant` array of tables.
 pub(crate) fn read(value: &Value<'_>, errors: &mut Vec<Diagnostic>) -> Vec<RawVariant> {
     let help = "write each variant as its own table, e.g.\n[[variant]]\nname = \"D\"\nzpe = { ts = \"ts-h\", stretch = 2900 }";
-    let DeValue::Array(items) = value.get_ref() else {
-        errors.push(
-            Diagnostic::error(
-                value.span(),
-                "variants are written [[variant]], with double brackets",
-            )
-            .with_help(help),
-        );
-        return Vec::new();
-    };
-    let mut out = Vec::new();
-    for item in items.iter() {
-        let DeValue::Table(table) = item.get_ref() else {
-            errors.push(
-                Diagnostic::error(item.span(), "each [[variant]] must be a table").with_help(help),
-            );
-            continue;
-        };
-        out.push(read_one(table, item.span(), out.len() + 1, errors));
-    }
-    out
+    fields::array_of_tables(value, "variant", help, errors)
+        .into_iter()
+        .enumerate()
+        .map(|(i, (table, span))| read_one(table, span, i + 1, errors))
+        .collect()
 }
 
 fn read_one(
@@ -233,14 +216,8 @@ pub(crate) fn resolve(
         let mut shifts = Vec::new();
         for (id, span, change) in v.changes {
             let Some(i) = points.iter().position(|p| p.id == id) else {
-                let help = match suggest::nearest(&id, points.iter().map(|p| p.id.as_str())) {
-                    Some(s) => format!("did you mean '{s}'?"),
-                    None => "use an id from [states] or [ts]".into(),
-                };
-                errors.push(
-                    Diagnostic::error(span, format!("unknown id '{id}' in variant '{name}'"))
-                        .with_help(help),
-                );
+                let item = crate::profile::document::Located { text: id, span };
+                errors.push(crate::profile::network::unknown_id(&item, points));
                 continue;
             };
             let shift = match change {
