@@ -1,6 +1,7 @@
 #!/usr/bin/env bash
 # Renders every profile in profiles/ with eyrie itself to gallery/<name>.svg
-# and gallery/<name>.png (300 dpi, single column: 85 × 65 mm → 1004 × 768 px).
+# and gallery/<name>.png (300 dpi), with every annotation, smooth connectors,
+# the zero line and the axis break. Single column (85 × 65 mm) unless noted.
 # Run it after any change to layout or rendering, look at the PNGs, commit.
 #
 #   gallery/regenerate.sh
@@ -10,9 +11,13 @@ cargo build --release --quiet
 eyrie="${CARGO_TARGET_DIR:-target}/release/eyrie"
 for profile in profiles/*.toml; do
   name=$(basename "$profile" .toml)
-  extra=()
-  # Absolute hartree energies read best in kcal/mol.
-  [ "$name" = hartree-absolute ] && extra=(--unit kcal/mol)
+  extra=(--annotate all --connectors smooth --zero-line --axis-break)
+  case "$name" in
+    # Absolute hartree energies read best in kcal/mol.
+    hartree-absolute) extra+=(--unit kcal/mol) ;;
+    # More than about 16 states need the full page width.
+    dense-network) extra+=(--size double) ;;
+  esac
   "$eyrie" render "$profile" -o "gallery/$name.svg" "${extra[@]}"
   "$eyrie" render "$profile" -o "gallery/$name.png" --dpi 300 "${extra[@]}"
 done
