@@ -498,3 +498,42 @@ fn analyze_over_a_folder_reports_a_bad_file_and_finishes_the_rest() {
         "{err}"
     );
 }
+
+#[test]
+fn render_over_a_folder_draws_the_good_files_and_leaves_the_bad_ones_output_alone() {
+    let dir = scratch();
+    let src = dir.path().join("profiles");
+    std::fs::create_dir(&src).unwrap();
+    let good = std::fs::read_to_string(repo("profiles/conformers.toml")).unwrap();
+    write(&src, "a.toml", &good);
+    write(&src, "b.toml", "unit = \"kcal/mol\"\n[states\n");
+    write(&src, "c.toml", &good);
+    let figs = dir.path().join("figs");
+    std::fs::create_dir(&figs).unwrap();
+    let old = write(&figs, "b.svg", "the figure from before");
+    let out = eyrie(&["render", "profiles", "-o", "figs/"], dir.path());
+    assert_eq!(out.status.code(), Some(2), "{}", text(&out.stderr));
+    let err = text(&out.stderr);
+    assert!(
+        err.contains("b.toml:2:") && err.contains("2 figure(s) drawn"),
+        "{err}"
+    );
+    assert!(figs.join("a.svg").exists() && figs.join("c.svg").exists());
+    assert_eq!(
+        std::fs::read_to_string(&old).unwrap(),
+        "the figure from before"
+    );
+    // A second run skips figures newer than their profiles.
+    let out = eyrie(
+        &["render", "profiles", "-o", "figs", "--skip-unchanged"],
+        dir.path(),
+    );
+    assert!(
+        text(&out.stderr).contains("0 figure(s) drawn, 2 unchanged"),
+        "{}",
+        text(&out.stderr)
+    );
+    // Several profiles need a folder, not a file name.
+    let out = eyrie(&["render", "profiles", "-o", "one.svg"], dir.path());
+    assert_eq!(out.status.code(), Some(2));
+}

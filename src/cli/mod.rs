@@ -63,8 +63,15 @@ enum Command {
     /// Draw the reaction-coordinate (free-energy) diagram of a profile as SVG,
     /// PNG or PDF, at a journal's column width.
     Render {
-        /// The profile file (TOML; see docs/profile-format.md).
-        profile: PathBuf,
+        /// The profile file (TOML; see docs/profile-format.md). Several files or
+        /// folders render in one run: -o then names the output folder and each
+        /// figure takes its profile's name, in the --format format.
+        #[arg(required = true)]
+        profiles: Vec<PathBuf>,
+        /// With several profiles: skip those whose figure is newer than the profile
+        /// (as make does; options are not compared).
+        #[arg(long)]
+        skip_unchanged: bool,
         #[command(flatten)]
         figure: render::FigureOptions,
         #[command(flatten)]
@@ -229,10 +236,11 @@ fn run(cli: Cli) -> Result<(), CliError> {
             monte_carlo,
         } => analyze::run(&profiles, &conditions, &monte_carlo, json),
         Command::Render {
-            profile,
+            profiles,
+            skip_unchanged,
             figure,
             conditions,
-        } => render::run(&profile, &figure, &conditions),
+        } => render::run_all(&profiles, skip_unchanged, &figure, &conditions),
         Command::Watch {
             profile,
             figure,

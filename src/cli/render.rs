@@ -85,7 +85,7 @@ pub(crate) enum Connectors {
 }
 
 /// Where and how to draw the figure (shared by `render` and `watch`).
-#[derive(Debug, clap::Args)]
+#[derive(Debug, Clone, clap::Args)]
 pub(crate) struct FigureOptions {
     /// Where to write the figure. The extension chooses the format: .svg (vector,
     /// text stays editable), .png (pixels, at --dpi) or .pdf (vector, font
@@ -93,8 +93,9 @@ pub(crate) struct FigureOptions {
     /// current folder. The file is replaced only once the figure is complete.
     #[arg(short, long, value_name = "FILE")]
     output: Option<PathBuf>,
-    /// Format of the default output file when -o is not given: svg, png or pdf.
-    #[arg(long, value_enum, value_name = "FORMAT", conflicts_with = "output")]
+    /// Format of the default output file when -o is not given (or names a folder
+    /// for several profiles): svg, png or pdf.
+    #[arg(long, value_enum, value_name = "FORMAT")]
     format: Option<Format>,
     /// Page and type size at the printed size: "single" is 85 × 65 mm with 7 pt
     /// type, one column of a two-column journal page (ACS 3.25 in ≈ 83 mm, RSC
@@ -257,6 +258,70 @@ pub fn run(
     target.write(&conditions.apply(parsed.model))?;
     eprintln!("wrote {}", target.output.display());
     Ok(())
+}
+
+/// Renders one profile, or several (files and folders) into the folder `-o`
+/// names: a bad profile is reported by name, the others are still drawn, and
+/// the exit code is the worst seen.
+pub fn run_all(
+    inputs: &[PathBuf],
+    skip_unchanged: bool,
+    figure: &FigureOptions,
+    conditions: &super::Conditions,
+) -> Result<(), CliError> {
+    let paths = files::expand(inputs)?;
+    if let [path] = &paths[..]
+        && !inputs[0].is_dir()
+    {
+        return run(path, figure, conditions);
+    }
+    let folder = figure.output.clone().unwrap_or_else(|| PathBuf::from("."));
+    if folder.extension().is_some() && !folder.is_dir() {
+        return Err(CliError::Usage(format!(
+            "with several profiles, -o names a folder for the figures, not '{}' \
+             (choose the format with --format)",
+            folder.display()
+        )));
+    }
+    std::fs::create_dir_all(&folder).map_err(|source| CliError::Io {
+        action: "write",
+        path: folder.clone(),
+        source,
+    })?;
+    let format = figure.format.unwrap_or(Format::Svg);
+    let (mut drawn, mut skipped, mut failed) = (0, 0, 0);
+    let mut worst = super::error::Exit::Success;
+    for path in &paths {
+        let mut one = figure.clone();
+        one.output = Some(folder.join(default_output(path, format)));
+        let output = one.output.clone().expect("just set");
+        if skip_unchanged && newer(&output, path) {
+            skipped += 1;
+            continue;
+        }
+        match run(path, &one, conditions) {
+            Ok(()) => drawn += 1,
+            Err(e) => {
+                e.report();
+                worst = worst.max(e.exit());
+                failed += 1;
+            }
+        }
+    }
+    eprintln!(
+        "{drawn} figure(s) drawn, {skipped} unchanged, {failed} failed ({} profile(s))",
+        paths.len()
+    );
+    match worst {
+        super::error::Exit::Success => Ok(()),
+        code => Err(CliError::Finished(code)),
+    }
+}
+
+/// Whether `output` exists and was written after `input` last changed.
+fn newer(output: &Path, input: &Path) -> bool {
+    let modified = |p: &Path| std::fs::metadata(p).and_then(|m| m.modified()).ok();
+    matches!((modified(output), modified(input)), (Some(o), Some(i)) if o >= i)
 }
 
 fn default_output(input: &Path, format: Format) -> PathBuf {
