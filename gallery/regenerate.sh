@@ -11,12 +11,17 @@ cargo build --release --quiet
 eyrie="${CARGO_TARGET_DIR:-target}/release/eyrie"
 for profile in profiles/*.toml; do
   name=$(basename "$profile" .toml)
-  extra=(--annotate all --connectors smooth --zero-line --axis-break)
+  # Each example shows the annotation that tells its story; all of them at
+  # once crowd a single-column figure.
   case "$name" in
+    demo) extra=() ;;
+    catalytic-cycle|hydrogenation-cycle) extra=(--annotate span --connectors smooth) ;;
+    conformers|curtin-hammett|entropy-switch|three-branch) extra=(--annotate selectivity --connectors smooth) ;;
     # Absolute hartree energies read best in kcal/mol.
-    hartree-absolute) extra+=(--unit kcal/mol) ;;
+    hartree-absolute) extra=(--annotate barriers --unit kcal/mol) ;;
     # More than about 16 states need the full page width.
-    dense-network) extra+=(--size double) ;;
+    dense-network) extra=(--size double --axis-break) ;;
+    *) extra=(--annotate barriers --connectors smooth) ;;
   esac
   "$eyrie" render "$profile" -o "gallery/$name.svg" "${extra[@]}"
   "$eyrie" render "$profile" -o "gallery/$name.png" --dpi 300 "${extra[@]}"

@@ -193,7 +193,8 @@ pub fn diagram_spec(model: &Model, options: &FigureOptions) -> DiagramSpec {
 /// The ΔΔG‡ bracket between the two lowest product-forming TSs that lead to
 /// different products, with the predicted ratio of those products.
 fn selectivity_bracket(model: &Model, energy: &dyn Fn(f64) -> String) -> Option<Annotation> {
-    let sel = kinetics::regime::selectivity(model, None)?;
+    let start = (!model.start().is_empty()).then(|| model.start());
+    let sel = kinetics::regime::selectivity(model, start)?;
     let mut channels: Vec<_> = sel.channels.iter().filter(|c| c.ts.is_some()).collect();
     channels.sort_by(|a, b| a.top.total_cmp(&b.top));
     let first = channels.first()?;
@@ -208,7 +209,13 @@ fn selectivity_bracket(model: &Model, energy: &dyn Fn(f64) -> String) -> Option<
     let ddg = model.point(b).g - model.point(a).g;
     let mut lines = vec![format!("ΔΔ*G*^‡ = {}", energy(ddg))];
     if let Some(r) = ratio(fraction(first.product), fraction(second.product)) {
-        lines.push(r);
+        // Only under Curtin–Hammett does the ratio follow from the bracketed ΔΔG‡
+        // alone; otherwise say so, or the two numbers seem to disagree.
+        lines.push(match sel.regime {
+            kinetics::regime::Regime::CurtinHammett => r,
+            kinetics::regime::Regime::KineticQuench => format!("{r} (kinetic quench)"),
+            kinetics::regime::Regime::Intermediate => format!("{r} (not Curtin–Hammett)"),
+        });
     }
     Some(Annotation::Difference { a, b, lines })
 }
