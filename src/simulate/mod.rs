@@ -12,11 +12,13 @@
 //! - [`integrate`]: stiff adaptive BDF integration (diffsol).
 //! - [`initial`], [`until`]: where the material starts, when to stop.
 //! - [`run`]: one simulation and its summary.
+//! - [`report`]: the JSON contract.
 //! - [`steady`]: the exact steady state a run has approached.
 
 pub mod initial;
 pub mod integrate;
 pub mod network;
+pub mod report;
 pub mod run;
 pub mod steady;
 pub mod until;

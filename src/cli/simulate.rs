@@ -1,0 +1,235 @@
+//! `eyrie simulate`: integrates the mass-action kinetics of a profile and
+//! prints the outcome (table or JSON) and writes the time course (CSV).
+
+use super::error::CliError;
+use super::files;
+use eyrie::format;
+use eyrie::model::Model;
+use eyrie::simulate::{self, Initial, Options, Simulation, Stopped, Until};
+use std::io::IsTerminal;
+use std::path::{Path, PathBuf};
+
+/// Model predictions and thermal safety: printed with every run.
+pub const CAUTION: &str = "Caution: these are model predictions from computed energies; they do not \
+replace experimental thermal-safety assessment (heat release, runaway) before scale-up.";
+
+/// Options of `eyrie simulate`.
+#[derive(Debug, clap::Args)]
+pub struct SimulateArgs {
+    /// The profile file (TOML; see docs/profile-format.md).
+    pub profile: PathBuf,
+    /// When to stop: a time ("2 h", "30 min", "1e4 s") or a conversion of the
+    /// starting material ("99%"). Default: 99 % conversion or equilibrium
+    /// (for a catalytic cycle: its steady state), whichever comes first.
+    #[arg(long, value_name = "RULE")]
+    pub until: Option<String>,
+    /// Initial concentrations in mol/L, e.g. "sub=1,cat=0.01"; states not named
+    /// start empty. Default: 1 mol/L of the reference state (zero, else start).
+    #[arg(long, value_name = "ID=CONC,...", conflicts_with = "boltzmann")]
+    pub initial: Option<String>,
+    /// Start with 1 mol/L spread over these states (conformers) by their
+    /// Boltzmann weights, e.g. "rot-e,rot-z".
+    #[arg(long, value_name = "ID,ID,...")]
+    pub boltzmann: Option<String>,
+    /// Print machine-readable JSON (time_s, final, products, …; docs/simulation.md).
+    #[arg(long)]
+    pub json: bool,
+    /// Write the time course as CSV (time in s, then one column per state) to
+    /// FILE, or alone on stdout when no FILE is given.
+    #[arg(long, value_name = "FILE", num_args = 0..=1, default_missing_value = "-")]
+    pub csv: Option<PathBuf>,
+    #[command(flatten)]
+    pub conditions: super::Conditions,
+}
+
+/// Runs the simulation and writes what was asked for.
+pub fn run(args: &SimulateArgs) -> Result<(), CliError> {
+    let usage = |e: simulate::SimulateError| CliError::Usage(e.to_string());
+    let until = match &args.until {
+        Some(text) => Until::parse(text).map_err(usage)?,
+        None => Until::Default,
+    };
+    let initial = match (&args.initial, &args.boltzmann) {
+        (Some(text), _) => Initial::parse_given(text).map_err(usage)?,
+        (None, Some(ids)) => Initial::Boltzmann(
+            ids.split(',')
+                .map(|s| s.trim().to_string())
+                .filter(|s| !s.is_empty())
+                .collect(),
+            1.0,
+        ),
+        (None, None) => Initial::Reference,
+    };
+    let (parsed, warnings) = files::load(&args.profile)?;
+    eprint!("{warnings}");
+    let model = args.conditions.apply(parsed.model);
+    let options = Options {
+        until,
+        initial,
+        ..Options::default()
+    };
+    let sim =
+        with_progress(|progress| simulate::simulate(&model, &options, progress)).map_err(usage)?;
+    let csv_to_stdout = args.csv.as_deref() == Some(Path::new("-"));
+    if let Some(path) = args.csv.as_deref().filter(|_| !csv_to_stdout) {
+        files::write_atomic(path, csv(&model, &sim).as_bytes())?;
+    }
+    if csv_to_stdout {
+        print!("{}", csv(&model, &sim));
+    } else if args.json {
+        let report = eyrie::simulate::report::SimulationReport::new(&model, &sim);
+        println!(
+            "{}",
+            serde_json::to_string_pretty(&report).expect("plain data")
+        );
+        eprintln!("{CAUTION}");
+    } else {
+        print!("{}", table(&model, &sim));
+    }
+    Ok(())
+}
+
+/// Runs `f` with a progress callback that draws a bar on stderr, only when
+/// stderr is a terminal and the run has lasted more than half a second.
+fn with_progress<T>(f: impl FnOnce(&mut dyn FnMut(f64, Option<f64>)) -> T) -> T {
+    let terminal = std::io::stderr().is_terminal();
+    let started = std::time::Instant::now();
+    let mut bar: Option<indicatif::ProgressBar> = None;
+    let mut progress = |t: f64, conversion: Option<f64>| {
+        if !terminal || started.elapsed().as_millis() < 500 {
+            return;
+        }
+        let b = bar.get_or_insert_with(|| {
+            let b = indicatif::ProgressBar::new(1000);
+            b.set_style(
+                indicatif::ProgressStyle::with_template("simulating {bar:30} {msg}")
+                    .expect("valid template"),
+            );
+            b
+        });
+        if let Some(c) = conversion {
+            b.set_position((c.clamp(0.0, 1.0) * 1000.0) as u64);
+        }
+        b.set_message(format!("t = {}", format::duration(t)));
+    };
+    let out = f(&mut progress);
+    if let Some(b) = bar {
+        b.finish_and_clear();
+    }
+    out
+}
+
+/// The time course: time in s, then one column per state id.
+fn csv(model: &Model, sim: &Simulation) -> String {
+    let ids: Vec<&str> = sim
+        .network
+        .species
+        .iter()
+        .map(|s| model.point(s.point).id.as_str())
+        .collect();
+    let mut out = format!("time_s,{}\n", ids.join(","));
+    for s in &sim.samples {
+        out.push_str(&format!("{:e}", s.t));
+        for v in &s.x {
+            out.push_str(&format!(",{:e}", v));
+        }
+        out.push('\n');
+    }
+    out
+}
+
+/// The human-readable summary.
+fn table(model: &Model, sim: &Simulation) -> String {
+    let mut out = String::new();
+    if let Some(title) = model.title() {
+        out.push_str(&format!("{title}\n"));
+    }
+    out.push_str(&format!(
+        "T = {}; every step first order, both directions (Eyring, as in analyze)\n",
+        model.temperature()
+    ));
+    let why = match sim.stopped {
+        Stopped::Conversion => "conversion reached",
+        Stopped::Equilibrium => "equilibrium (or the cycle's steady state) reached",
+        Stopped::Time => "the requested time",
+        Stopped::TimeLimit => "time limit, neither conversion nor equilibrium reached",
+    };
+    out.push_str(&format!(
+        "stopped at t = {} ({why})\n",
+        format::duration(sim.time_s())
+    ));
+    if let Some(c) = sim.conversion {
+        let times: Vec<String> = sim
+            .milestones
+            .iter()
+            .map(|(m, t)| {
+                let t = t.map_or("not reached".to_string(), format::duration);
+                format!("{:.0} % {t}", m * 100.0)
+            })
+            .collect();
+        out.push_str(&format!(
+            "conversion {:.2} %; time to {}\n",
+            c * 100.0,
+            times.join(", ")
+        ));
+    }
+    out.push_str("\nfinal concentrations (mol/L)\n");
+    let width = sim
+        .network
+        .species
+        .iter()
+        .map(|s| model.point(s.point).id.chars().count())
+        .max()
+        .unwrap_or(0);
+    for (s, v) in sim.network.species.iter().zip(&sim.last().x) {
+        let note = if s.counter {
+            "  (product released)"
+        } else {
+            ""
+        };
+        out.push_str(&format!(
+            "  {:<width$}  {}{note}\n",
+            model.point(s.point).id,
+            format::scientific(shown(*v))
+        ));
+    }
+    if sim.products.iter().any(|p| p.1 > 0.0) {
+        let list: Vec<String> = sim
+            .products
+            .iter()
+            .map(|(p, _, f)| format!("{} {:.1} %", model.point(*p).id, f * 100.0))
+            .collect();
+        out.push_str(&format!("\nproducts: {}\n", list.join(", ")));
+        if sim.products.len() > 1 {
+            if sim.ratio_drift > DRIFT_SHOWN {
+                out.push_str(&format!(
+                    "the product ratio drifts in time: fractions changed by up to {:.1} points \
+                     after 5 % of the product had formed (reversible or interconverting products)\n",
+                    sim.ratio_drift * 100.0
+                ));
+            } else {
+                out.push_str("the product ratio is constant in time\n");
+            }
+        }
+    }
+    for (p, tof) in &sim.turnover {
+        out.push_str(&format!(
+            "cycle ending at {}: TOF {} s⁻¹ at steady state\n",
+            model.point(*p).id,
+            format::scientific(*tof)
+        ));
+    }
+    out.push_str(&format!(
+        "mass balance {:.0e} (relative)\n\n{CAUTION}\n",
+        sim.mass_error
+    ));
+    out
+}
+
+/// Drift of product fractions below this (0.1 points) counts as constant.
+pub const DRIFT_SHOWN: f64 = 1e-3;
+
+/// Values below the integrator's absolute tolerance are shown as 0.
+fn shown(v: f64) -> f64 {
+    if v.abs() < 1e-14 { 0.0 } else { v }
+}
