@@ -2,22 +2,10 @@
 //! analytic cases, with the documented exit codes (0 all consistent, 1 any
 //! inconsistent, 2 invalid input; the worst code wins over several files).
 
-use std::path::{Path, PathBuf};
-use std::process::{Command, Output};
+mod common;
 
-fn eyrie(args: &[&str], dir: &Path) -> Output {
-    Command::new(env!("CARGO_BIN_EXE_eyrie"))
-        .args(args)
-        .current_dir(dir)
-        .output()
-        .expect("the binary runs")
-}
-
-fn write(dir: &Path, name: &str, content: &str) -> PathBuf {
-    let p = dir.join(name);
-    std::fs::write(&p, content).unwrap();
-    p
-}
+use common::{eyrie, write};
+use std::process::Output;
 
 /// RT at 298.15 K in kcal/mol (CODATA 2018; tests/reference/constants.toml).
 const RT: f64 = 0.592484949713764;

@@ -1,20 +1,9 @@
 //! The `eyrie` binary as a user runs it: exit codes, outputs, atomic writes,
 //! untouched inputs. Each test works in its own temporary folder.
 
-use std::path::{Path, PathBuf};
-use std::process::{Command, Output};
+mod common;
 
-fn eyrie(args: &[&str], dir: &Path) -> Output {
-    Command::new(env!("CARGO_BIN_EXE_eyrie"))
-        .args(args)
-        .current_dir(dir)
-        .output()
-        .expect("the binary runs")
-}
-
-fn repo(path: &str) -> String {
-    format!("{}/{path}", env!("CARGO_MANIFEST_DIR"))
-}
+use common::{eyrie, repo, write};
 
 fn text(bytes: &[u8]) -> String {
     String::from_utf8_lossy(bytes).into_owned()
@@ -39,12 +28,6 @@ fn svg_texts(svg: &str) -> Vec<String> {
 
 fn scratch() -> tempfile::TempDir {
     tempfile::tempdir().expect("temp dir")
-}
-
-fn write(dir: &Path, name: &str, content: &str) -> PathBuf {
-    let p = dir.join(name);
-    std::fs::write(&p, content).unwrap();
-    p
 }
 
 #[test]

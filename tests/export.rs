@@ -1,19 +1,9 @@
 //! `eyrie export`: the numbers for the manuscript are the ones the tables show,
 //! in LaTeX, Markdown and CSV, with keys that survive any path name.
 
-use std::process::Command;
+mod common;
 
-fn eyrie(args: &[&str], dir: &std::path::Path) -> std::process::Output {
-    Command::new(env!("CARGO_BIN_EXE_eyrie"))
-        .args(args)
-        .current_dir(dir)
-        .output()
-        .unwrap()
-}
-
-fn repo(p: &str) -> String {
-    format!("{}/{p}", env!("CARGO_MANIFEST_DIR"))
-}
+use common::{eyrie, repo};
 
 #[test]
 fn the_exported_numbers_are_the_analysed_ones() {

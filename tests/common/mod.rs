@@ -1,0 +1,27 @@
+//! Helpers shared by the tests that run the `eyrie` binary as a user would:
+//! run it in a folder, find repository files, write scratch profiles.
+#![allow(dead_code)] // each test binary uses its own subset
+
+use std::path::{Path, PathBuf};
+use std::process::{Command, Output};
+
+/// Runs `eyrie ARGS` with `dir` as the working folder.
+pub fn eyrie(args: &[&str], dir: &Path) -> Output {
+    Command::new(env!("CARGO_BIN_EXE_eyrie"))
+        .args(args)
+        .current_dir(dir)
+        .output()
+        .expect("the binary runs")
+}
+
+/// A path inside the repository, as a string for the command line.
+pub fn repo(path: &str) -> String {
+    format!("{}/{path}", env!("CARGO_MANIFEST_DIR"))
+}
+
+/// Writes `content` to `dir/name` and returns the path.
+pub fn write(dir: &Path, name: &str, content: &str) -> PathBuf {
+    let p = dir.join(name);
+    std::fs::write(&p, content).unwrap();
+    p
+}
