@@ -42,13 +42,14 @@ fn rate(key: String, description: String, v: f64, unit: &str) -> Quantity {
     }
 }
 
-/// 2.16e-3 → `2.16\times10^{-3}`; plain numbers stay plain.
+/// 2.16e-3 → `\ensuremath{2.16\times10^{-3}}`, which typesets in running
+/// text and inside `$…$` alike; plain numbers stay plain.
 fn latex_scientific(v: f64) -> String {
     let text = format::scientific(v);
     match text.split_once('e') {
         Some((mantissa, exp)) => {
             let exp = exp.trim_start_matches('+');
-            format!("{mantissa}\\times10^{{{exp}}}")
+            format!("\\ensuremath{{{mantissa}\\times10^{{{exp}}}}}")
         }
         None => text.replace('-', "\\textminus{}"),
     }

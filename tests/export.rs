@@ -64,6 +64,10 @@ fn latex_defines_one_macro_per_number_with_safe_keys() {
     );
     for line in tex.lines().filter(|l| l.starts_with("\\expandafter")) {
         let code = line.split(" % ").next().unwrap();
+        // A power of ten is math; outside math mode LaTeX stops at `^`.
+        if code.contains("\\times10^") {
+            assert!(code.contains("\\ensuremath{"), "{line}");
+        }
         assert_eq!(
             code.matches('{').count(),
             code.matches('}').count(),
