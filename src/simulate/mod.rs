@@ -14,7 +14,12 @@
 //! - [`run`]: one simulation and its summary.
 //! - [`report`]: the JSON contract.
 //! - [`steady`]: the exact steady state a run has approached.
+//! - [`control`]: degrees of rate and selectivity control (finite differences).
+//! - [`fractions`]: final product fractions for `analyze`, checked against
+//!   the closed-form limits.
 
+pub mod control;
+pub mod fractions;
 pub mod initial;
 pub mod integrate;
 pub mod network;
@@ -23,10 +28,12 @@ pub mod run;
 pub mod steady;
 pub mod until;
 
+pub use control::{RateControl, SelectivityControl, rate_control, selectivity_control};
+pub use fractions::{Simulated, simulated_fractions};
 pub use initial::Initial;
 pub use integrate::Tolerances;
 pub use network::Network;
-pub use run::{Options, Simulation, Stopped, simulate};
+pub use run::{Options, Simulation, Stopped, simulate, simulate_network};
 pub use until::Until;
 
 /// Why a simulation could not be run or finished.
@@ -90,4 +97,15 @@ pub enum SimulateError {
         "a conversion needs starting material outside the products and the catalytic cycle; give a time instead (e.g. --until '1 h')"
     )]
     NoConversion,
+    /// A degree of rate control has no rate to differentiate.
+    #[error("no degree of rate control: {0}")]
+    NoRateControl(String),
+    /// The network is larger than a check by simulation is run for.
+    #[error("{states} states, above the {limit} simulated for this check")]
+    TooLarge {
+        /// States (minima) in the network.
+        states: usize,
+        /// The limit.
+        limit: usize,
+    },
 }

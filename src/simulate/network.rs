@@ -248,36 +248,31 @@ impl Network {
     }
 
     /// The same network with point `point` lowered by `delta_rt` (in units of
-    /// RT): a TS speeds up both directions of its steps; a minimum slows the
-    /// steps that leave it (for a barrierless step the virtual TS sits at the
-    /// higher minimum and moves with it). Used for degrees of rate control.
+    /// RT), every other energy held: the perturbation of a degree of rate
+    /// control. A TS speeds up both directions of its steps by e^δ; a minimum
+    /// slows the steps that leave it by e^−δ. The top of a barrierless step is
+    /// held too (it is perturbed on its own, in [`super::control`]), so
+    /// that TS-like and state-like controls stay separate and each sum rule
+    /// holds. A cycle's first state stands for the regenerated catalyst as well
+    /// (the closing step's reverse leaves it), so both move together and ΔGr
+    /// is unchanged; a counter's own point changes nothing.
     pub fn stabilised(&self, model: &Model, point: PointId, delta_rt: f64) -> Network {
         let f = delta_rt.exp();
         let mut out = self.clone();
-        let species = |i: usize| self.species[i].point;
-        // A counter stands for the first state of its cycle plus product; the
-        // reaction's `to` is that first state already.
+        let is_ts = model.point(point).kind == Kind::TransitionState;
         for r in &mut out.reactions {
-            if model.point(point).kind == Kind::TransitionState {
+            if is_ts {
                 if r.ts == Some(point) {
                     r.kf *= f;
                     r.kr *= f;
                 }
                 continue;
             }
-            let (a, b) = (species(r.from), species(r.to));
-            if a != point && b != point {
-                continue;
+            if self.species[r.from].point == point {
+                r.kf /= f;
             }
-            let top_is_point = r.ts.is_none() && {
-                let (ga, gb) = (model.point(a).g, model.point(b).g);
-                if a == point { ga >= gb } else { gb >= ga }
-            };
-            match (a == point, top_is_point) {
-                (true, false) => r.kf /= f,
-                (true, true) => r.kr *= f,
-                (false, false) => r.kr /= f,
-                (false, true) => r.kf *= f,
+            if self.species[r.to].point == point {
+                r.kr /= f;
             }
         }
         out

@@ -103,6 +103,17 @@ pub fn simulate(
     progress: &mut dyn FnMut(f64, Option<f64>),
 ) -> Result<Simulation, SimulateError> {
     let network = Network::new(model, &kinetics::analyze(model));
+    simulate_network(model, network, options, progress)
+}
+
+/// Runs a simulation of a given network of `model` (e.g. one with a point's
+/// energy perturbed, for degrees of rate control).
+pub fn simulate_network(
+    model: &Model,
+    network: Network,
+    options: &Options,
+    progress: &mut dyn FnMut(f64, Option<f64>),
+) -> Result<Simulation, SimulateError> {
     let by_point = options.initial.resolve(model)?;
     let x0: Vec<f64> = network.species.iter().map(|s| by_point[s.point]).collect();
     let pool0: f64 = pool(&network, &x0);
