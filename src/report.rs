@@ -232,6 +232,60 @@ pub struct SelectivityReport {
     pub start: Vec<String>,
     /// The reason in words, with the numbers that decide it.
     pub reason: String,
+    /// Product id → final fraction from the mass-action simulation from the
+    /// same start (every step reversible, run to completion or equilibrium);
+    /// null when not simulated (`simulation_note` says why).
+    pub simulated: Option<std::collections::BTreeMap<String, f64>>,
+    /// Why the simulation stopped: "conversion" (complete), "equilibrium"
+    /// (products revert), "time-limit"; null when not simulated.
+    pub simulation_stopped: Option<crate::simulate::Stopped>,
+    /// Whether `products` agrees with `simulated` within `limit_margin`; null
+    /// when not simulated.
+    pub limit_agrees: Option<bool>,
+    /// The largest RT·|ln| of the factor by which a ratio of two products
+    /// (each ≥ 1 % in either result) differs between `products` and
+    /// `simulated`: the error of the ΔΔG‡ read off the ratio, in `unit`; null
+    /// when not simulated.
+    pub limit_error: Option<f64>,
+    /// The agreement margin: 0.1 kcal/mol, in `unit`.
+    pub limit_margin: f64,
+    /// Why there is no simulation (e.g. a network above 200 states), or null.
+    pub simulation_note: Option<String>,
+}
+
+impl SelectivityReport {
+    /// The closed-form analysis with its check by simulation.
+    fn new(model: &Model, s: &crate::kinetics::regime::Selectivity) -> SelectivityReport {
+        use crate::simulate::fractions::{agreement_margin, limit_error, simulated_fractions};
+        let id = |p: usize| model.point(p).id.clone();
+        let unit = model.unit();
+        let mut report = SelectivityReport {
+            regime: s.regime.name(),
+            products: s.products.iter().map(|&(p, f)| (id(p), f)).collect(),
+            ddg: s.ddg,
+            margin: s.margin,
+            threshold: s.threshold,
+            start: s.start.iter().map(|&p| id(p)).collect(),
+            reason: s.reason.clone(),
+            simulated: None,
+            simulation_stopped: None,
+            limit_agrees: None,
+            limit_error: None,
+            limit_margin: agreement_margin(unit),
+            simulation_note: None,
+        };
+        match simulated_fractions(model, &s.start) {
+            Ok(sim) => {
+                let error = limit_error(&s.products, &sim.products, model.temperature().rt(unit));
+                report.simulated = Some(sim.products.iter().map(|&(p, f)| (id(p), f)).collect());
+                report.simulation_stopped = Some(sim.stopped);
+                report.limit_agrees = Some(error <= report.limit_margin);
+                report.limit_error = Some(error);
+            }
+            Err(e) => report.simulation_note = Some(format!("not simulated: {e}")),
+        }
+        report
+    }
 }
 
 /// One stationary point.
@@ -351,16 +405,8 @@ impl AnalysisReport {
             })
             .collect();
         let start = (!model.start().is_empty()).then(|| model.start());
-        let selectivity =
-            crate::kinetics::regime::selectivity(model, start).map(|s| SelectivityReport {
-                regime: s.regime.name(),
-                products: s.products.iter().map(|&(p, f)| (id(p), f)).collect(),
-                ddg: s.ddg,
-                margin: s.margin,
-                threshold: s.threshold,
-                start: s.start.iter().map(|&p| id(p)).collect(),
-                reason: s.reason.clone(),
-            });
+        let selectivity = crate::kinetics::regime::selectivity(model, start)
+            .map(|s| SelectivityReport::new(model, &s));
         AnalysisReport {
             title: model.title().map(str::to_string),
             temperature_k: analysis.temperature.k(),

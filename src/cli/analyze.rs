@@ -325,6 +325,62 @@ fn table(r: &AnalysisReport, decimals: usize) -> String {
         };
         out.push_str(&format!("  {what}: {} {}\n", e(sel.ddg), r.unit));
         out.push_str(&format!("  why: {}\n", sel.reason));
+        out.push_str(&simulated_lines(sel, &e, r.unit));
     }
     out
+}
+
+/// What the simulation says about the closed-form fractions, in words.
+fn simulated_lines(
+    sel: &eyrie::report::SelectivityReport,
+    e: &dyn Fn(f64) -> String,
+    unit: &str,
+) -> String {
+    let (Some(sim), Some(stopped), Some(agrees), Some(error)) = (
+        &sel.simulated,
+        sel.simulation_stopped,
+        sel.limit_agrees,
+        sel.limit_error,
+    ) else {
+        return sel
+            .simulation_note
+            .as_ref()
+            .map_or(String::new(), |n| format!("  simulation: {n}\n"));
+    };
+    let mut shares: Vec<(&String, &f64)> = sim.iter().collect();
+    shares.sort_by(|a, b| b.1.total_cmp(a.1).then(a.0.cmp(b.0)));
+    let list: Vec<String> = shares
+        .iter()
+        .take(6)
+        .map(|(id, f)| format!("{id} {:.1} %", *f * 100.0))
+        .collect();
+    let until = match stopped {
+        eyrie::simulate::Stopped::Equilibrium => "to equilibrium, products forming reversibly",
+        eyrie::simulate::Stopped::TimeLimit => {
+            "until 1e15 s without using up the starting material; product formed so far"
+        }
+        _ => "to 99.99 % conversion",
+    };
+    let closed = match sel.regime {
+        "curtin-hammett" => "the Curtin–Hammett limit",
+        "kinetic-quench" => "the kinetic-quench limit",
+        _ => "the partition with irreversible product formation",
+    };
+    let verdict = if agrees {
+        format!(
+            "{closed} agrees (product ratios within {} {unit})",
+            e(sel.limit_margin)
+        )
+    } else {
+        format!(
+            "{closed} is off: a product ratio differs by a factor worth {} {unit} of ΔΔG‡ \
+             (more than {} {unit}); use the simulated fractions",
+            e(error),
+            e(sel.limit_margin)
+        )
+    };
+    format!(
+        "  simulated (every step both ways, {until}): {}\n  {verdict}\n",
+        list.join(", ")
+    )
 }
