@@ -1,6 +1,8 @@
 //! Degrees of rate control and of selectivity control from the simulation
 //! (`eyrie::simulate::control`), against closed forms.
 
+mod common;
+
 use eyrie::model::Model;
 use eyrie::simulate::control::{RateControl, Target};
 use eyrie::simulate::{Options, rate_control, selectivity_control};
@@ -251,4 +253,63 @@ fn no_rate_without_conversion() {
     );
     let e = rate_control(&m, &Options::default()).unwrap_err();
     assert!(e.to_string().contains("50 % conversion"), "{e}");
+}
+
+#[test]
+fn simulate_reports_rate_control_for_a_cycle_by_default() {
+    // The demo cycle's degrees against its energetic span TOF control (closed
+    // form, Kozuch & Shaik 2011), as `analyze` reports it, through the binary.
+    let dir = tempfile::tempdir().unwrap();
+    let profile = common::repo("profiles/catalytic-cycle.toml");
+    let out = common::eyrie(&["simulate", "--json", &profile], dir.path());
+    assert!(out.status.success());
+    let json: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
+    let rc = json["rate_control"]
+        .as_object()
+        .expect("rate_control for a cycle");
+    assert!((json["rate_control_sum"].as_f64().unwrap() - 1.0).abs() < 1e-6);
+    assert_eq!(json["rate_control_basis"]["rate"], "turnover");
+    assert_eq!(json["rate_control_basis"]["sum_rule_holds"], true);
+    assert!(json["selectivity_control"].is_null());
+    let m = model(&std::fs::read_to_string(&profile).unwrap());
+    let cycle = eyrie::kinetics::cycle::analyze_cycle(&m, 0).unwrap();
+    for (i, t) in cycle.ts.iter().enumerate() {
+        let got = rc[&t.name(&m)].as_f64().unwrap();
+        assert!(
+            (got - cycle.span.ts_control[i]).abs() < 1e-3,
+            "{}",
+            t.name(&m)
+        );
+    }
+}
+
+#[test]
+fn rate_control_on_request_for_a_profile_without_a_cycle() {
+    let dir = tempfile::tempdir().unwrap();
+    let profile = common::repo("profiles/conformers.toml");
+    let plain = common::eyrie(&["simulate", "--json", &profile], dir.path());
+    let json: serde_json::Value = serde_json::from_slice(&plain.stdout).unwrap();
+    assert!(json["rate_control"].is_null(), "not asked for");
+    let out = common::eyrie(
+        &["simulate", "--rate-control", "--json", &profile],
+        dir.path(),
+    );
+    let json: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
+    assert_eq!(json["rate_control_basis"]["rate"], "product-formation");
+    // Selectivity control sums to zero over the TSs (uniform TS shifts only
+    // rescale time; Stegelmann et al. 2009's argument applied to S).
+    let sc = json["selectivity_control"].as_object().unwrap();
+    let ts_sum: f64 = ["ts-a", "ts-b", "ts-rot"]
+        .iter()
+        .map(|k| sc[*k].as_f64().unwrap())
+        .sum();
+    assert!(ts_sum.abs() < 1e-4, "{ts_sum}");
+    let text = common::eyrie(&["simulate", "--rate-control", &profile], dir.path());
+    let text = String::from_utf8(text.stdout).unwrap();
+    assert!(text.contains("Degree of rate control"), "{text}");
+    assert!(
+        text.contains("Degree of selectivity control toward prod-b"),
+        "{text}"
+    );
+    assert!(text.contains("the sum rules hold"), "{text}");
 }

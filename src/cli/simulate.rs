@@ -34,6 +34,11 @@ pub struct SimulateArgs {
     /// Print machine-readable JSON (time_s, final, products, …; docs/simulation.md).
     #[arg(long)]
     pub json: bool,
+    /// Degrees of rate and selectivity control for a profile without a
+    /// catalytic cycle too (r = d[P]/dt at 50 % conversion); a cycle always
+    /// gets its degrees of rate control, at steady state.
+    #[arg(long)]
+    pub rate_control: bool,
     /// Write the time course as CSV (time in s, then one column per state) to
     /// FILE, or alone on stdout when no FILE is given.
     #[arg(long, value_name = "FILE", num_args = 0..=1, default_missing_value = "-")]
@@ -70,6 +75,7 @@ pub fn run(args: &SimulateArgs) -> Result<(), CliError> {
     };
     let sim =
         with_progress(|progress| simulate::simulate(&model, &options, progress)).map_err(usage)?;
+    let controls = Controls::new(&model, &options, &sim, args.rate_control);
     let csv_to_stdout = args.csv.as_deref() == Some(Path::new("-"));
     if let Some(path) = args.csv.as_deref().filter(|_| !csv_to_stdout) {
         files::write_atomic(path, csv(&model, &sim).as_bytes())?;
@@ -78,15 +84,95 @@ pub fn run(args: &SimulateArgs) -> Result<(), CliError> {
         print!("{}", csv(&model, &sim));
     } else if args.json {
         let report = eyrie::simulate::report::SimulationReport::new(&model, &sim);
+        let report = match &controls.rate {
+            Some(rc) => report.with_rate_control(&model, rc),
+            None => report,
+        }
+        .with_selectivity_control(&model, &controls.selectivity);
         println!(
             "{}",
             serde_json::to_string_pretty(&report).expect("plain data")
         );
         eprintln!("{CAUTION}");
     } else {
-        print!("{}", table(&model, &sim));
+        print!("{}", table(&model, &sim, &controls));
     }
     Ok(())
+}
+
+/// The degrees of control due: always for a closed cycle, otherwise when asked.
+struct Controls {
+    rate: Option<Result<simulate::RateControl, simulate::SimulateError>>,
+    selectivity: Option<simulate::SelectivityControl>,
+}
+
+impl Controls {
+    fn new(model: &Model, options: &Options, sim: &Simulation, asked: bool) -> Controls {
+        let cycle = !sim.network.cycles.is_empty();
+        let selectivity =
+            match (asked && !cycle).then(|| simulate::selectivity_control(model, options)) {
+                Some(Ok(sc)) => sc,
+                Some(Err(e)) => {
+                    eprintln!("note: no degree of selectivity control: {e}");
+                    None
+                }
+                None => None,
+            };
+        Controls {
+            rate: (cycle || asked).then(|| simulate::rate_control(model, options)),
+            selectivity,
+        }
+    }
+}
+
+/// Degrees of control with |X| ≥ 0.01, largest first, one per line.
+fn control_block(model: &Model, controls: &Controls) -> String {
+    let list = |degrees: &[(simulate::control::Target, f64)]| {
+        let mut shown: Vec<(String, f64)> = degrees
+            .iter()
+            .filter(|d| d.1.abs() >= 0.01)
+            .map(|(t, x)| (t.name(model), *x))
+            .collect();
+        shown.sort_by(|a, b| b.1.abs().total_cmp(&a.1.abs()).then(a.0.cmp(&b.0)));
+        let width = shown.iter().map(|s| s.0.chars().count()).max().unwrap_or(0);
+        shown
+            .iter()
+            .map(|(id, x)| format!("  {id:<width$}  {x:+.2}\n"))
+            .collect::<String>()
+    };
+    let mut out = String::new();
+    match &controls.rate {
+        Some(Ok(rc)) => {
+            let r = match rc.rate {
+                simulate::control::Rate::Turnover => "steady-state turnover",
+                simulate::control::Rate::ProductFormation => "d[P]/dt at 50 % conversion",
+            };
+            out.push_str(&format!(
+                "\nDegree of rate control (X = ∂ln r/∂(−G/RT), r = {r}), |X| ≥ 0.01:\n"
+            ));
+            out.push_str(&list(&rc.degrees));
+            let holds = if rc.sum_rule_holds() {
+                "the sum rules hold"
+            } else {
+                "the sum rules do NOT hold: treat these values with care"
+            };
+            out.push_str(&format!(
+                "  sum over TSs {:.3}, over states {:.3} ({holds})\n",
+                rc.sum_ts, rc.sum_states
+            ));
+        }
+        Some(Err(e)) => out.push_str(&format!("\n{e}\n")),
+        None => {}
+    }
+    if let Some(sc) = &controls.selectivity {
+        out.push_str(&format!(
+            "\nDegree of selectivity control toward {} ({:.1} %), |X| ≥ 0.01:\n",
+            model.point(sc.product).id,
+            sc.selectivity * 100.0
+        ));
+        out.push_str(&list(&sc.degrees));
+    }
+    out
 }
 
 /// Runs `f` with a progress callback that draws a bar on stderr, only when
@@ -139,7 +225,7 @@ fn csv(model: &Model, sim: &Simulation) -> String {
 }
 
 /// The human-readable summary.
-fn table(model: &Model, sim: &Simulation) -> String {
+fn table(model: &Model, sim: &Simulation, controls: &Controls) -> String {
     let mut out = String::new();
     if let Some(title) = model.title() {
         out.push_str(&format!("{title}\n"));
@@ -218,6 +304,11 @@ fn table(model: &Model, sim: &Simulation) -> String {
             model.point(*p).id,
             format::scientific(*tof)
         ));
+    }
+    let block = control_block(model, controls);
+    if !block.is_empty() {
+        out.push_str(&block);
+        out.push('\n');
     }
     out.push_str(&format!(
         "mass balance {:.0e} (relative)\n\n{CAUTION}\n",
