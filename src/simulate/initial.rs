@@ -1,6 +1,7 @@
 //! Where the material starts: the reference state at 1 mol/L by default,
 //! concentrations given by the user, or a Boltzmann distribution over a set
-//! of conformers.
+//! of conformers. Co-reactants that steps consume start at their
+//! `[coreactants]` concentration unless `--initial` names them too.
 
 use super::SimulateError;
 use crate::model::{Kind, Model, PointId};
@@ -12,7 +13,8 @@ pub enum Initial {
     /// states (shared equally), else the first state of the first path.
     #[default]
     Reference,
-    /// Concentrations in mol/L by state id; states not named start empty.
+    /// Concentrations in mol/L by state id (or co-reactant name); states not
+    /// named start empty, co-reactants not named at their stated value.
     Given(Vec<(String, f64)>),
     /// `total` mol/L spread over these states by Boltzmann weights exp(−G/RT).
     Boltzmann(Vec<String>, f64),
@@ -53,6 +55,14 @@ impl Initial {
         Ok(Initial::Given(out))
     }
 
+    /// The initial concentration given for co-reactant `name`, if any.
+    pub fn coreactant(&self, name: &str) -> Option<f64> {
+        match self {
+            Initial::Given(list) => list.iter().rev().find(|(id, _)| id == name).map(|e| e.1),
+            _ => None,
+        }
+    }
+
     /// Concentrations per model point (zero for TSs and unnamed states).
     pub fn resolve(&self, model: &Model) -> Result<Vec<f64>, SimulateError> {
         let mut x = vec![0.0; model.points().len()];
@@ -66,6 +76,9 @@ impl Initial {
             }
             Initial::Given(list) => {
                 for (id, c) in list {
+                    if model.find(id).is_none() && is_coreactant(model, id) {
+                        continue;
+                    }
                     x[minimum(model, id)?] += c;
                 }
             }
@@ -106,6 +119,11 @@ pub fn reference_states(model: &Model) -> Vec<PointId> {
         return model.start().to_vec();
     }
     vec![model.paths()[0].via[0]]
+}
+
+/// Whether some state lists `name` as a free co-reactant.
+fn is_coreactant(model: &Model, name: &str) -> bool {
+    (0..model.points().len()).any(|p| model.extras(p).with.iter().any(|(w, _)| w == name))
 }
 
 fn minimum(model: &Model, id: &str) -> Result<PointId, SimulateError> {

@@ -1,5 +1,15 @@
 //! The mass-action system a profile implies: one concentration per minimum,
-//! one reversible first-order reaction per elementary step.
+//! one reversible reaction per elementary step, and one concentration per
+//! co-reactant that a step consumes.
+//!
+//! A step is first order in its states; it is also first order in each
+//! co-reactant it consumes (free in the state it leaves, not in the state it
+//! reaches), which makes it bimolecular: rate = k₂·[A]·[W]. The rate constants
+//! are the pseudo-first-order ones `analyze` reports, k = k₂·c, where c is the
+//! `[coreactants]` concentration; a bimolecular rate is written
+//! k·[A]·([W]/c), so the simulation equals `analyze` whenever [W] stays at c
+//! (the excess limit) and k₂ = k/c is the Eyring constant at the 1 mol/L
+//! standard state.
 //!
 //! The right-hand side is assembled as the net flux of each step (forward
 //! minus reverse), taken from one state and given to the other. Summing a
@@ -10,7 +20,8 @@
 use crate::kinetics::Analysis;
 use crate::model::{Kind, Model, PointId};
 
-/// One reversible first-order step `from ⇌ to`.
+/// One reversible step `from ⇌ to`, first order in each side's state and in
+/// the co-reactants that side consumes.
 #[derive(Debug, Clone, PartialEq)]
 pub struct Reaction {
     /// Species index the forward direction consumes.
@@ -19,10 +30,16 @@ pub struct Reaction {
     pub to: usize,
     /// The transition state, `None` for a barrierless step.
     pub ts: Option<PointId>,
-    /// Forward rate constant, s⁻¹.
+    /// Forward rate constant, s⁻¹ (pseudo-first order at the stated
+    /// concentration of the co-reactants the forward direction consumes).
     pub kf: f64,
-    /// Reverse rate constant, s⁻¹.
+    /// Reverse rate constant, s⁻¹ (likewise for the reverse direction).
     pub kr: f64,
+    /// Co-reactants (indices into [`Network::coreactants`]) the forward
+    /// direction consumes and the reverse direction releases.
+    pub forward_with: Vec<usize>,
+    /// Co-reactants the reverse direction consumes and the forward releases.
+    pub reverse_with: Vec<usize>,
     /// For the last step of a catalytic cycle: the species that counts the
     /// product released (it receives the net flux but gives nothing back, as
     /// the catalyst itself returns to the cycle's first state).
@@ -43,11 +60,25 @@ pub struct Species {
     pub in_cycle: bool,
 }
 
-/// The ODE system dx/dt = f(x) of a model, first order in every state.
+/// A co-reactant that some step consumes: a species of its own, after the
+/// minima in the state vector.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Coreactant {
+    /// Its name in `[coreactants]`.
+    pub name: String,
+    /// Its `[coreactants]` concentration, mol/L: the initial value, and the
+    /// concentration at which `kf`/`kr` are pseudo-first order.
+    pub stated: f64,
+}
+
+/// The ODE system dx/dt = f(x) of a model. The state vector holds the
+/// minima ([`Network::species`]) then the co-reactants.
 #[derive(Debug, Clone, PartialEq)]
 pub struct Network {
     /// Species in model point order (minima only).
     pub species: Vec<Species>,
+    /// Co-reactants consumed by some step, in order of first use.
+    pub coreactants: Vec<Coreactant>,
     /// Reactions in model step order.
     pub reactions: Vec<Reaction>,
     /// For each closed catalytic cycle, its reactions in turnover order (the
@@ -61,8 +92,9 @@ impl Network {
     ///
     /// A `cycle = true` path whose last state takes part in no other step is
     /// closed: its last step returns the catalyst to the first state and the
-    /// last state counts the product released (substrate in excess, folded
-    /// into the energies as pseudo-first order).
+    /// last state counts the product released. A substrate in excess is
+    /// folded into the energies as pseudo-first order; one listed with `with`
+    /// on the cycle's states is consumed as a co-reactant instead.
     pub fn new(model: &Model, analysis: &Analysis) -> Network {
         let mut index = vec![usize::MAX; model.points().len()];
         let mut species = Vec::new();
@@ -102,6 +134,7 @@ impl Network {
                 species[index[end]].counter = true;
             }
         }
+        let mut coreactants: Vec<Coreactant> = Vec::new();
         let reactions = analysis
             .steps
             .iter()
@@ -110,6 +143,8 @@ impl Network {
                 let close = |p: PointId| closing.iter().find(|c| c.0 == p).map(|c| c.1);
                 let (mut from, mut to, mut counter) = (s.from, s.to, None);
                 let (mut kf, mut kr) = (sk.k_forward.per_second(), sk.k_reverse.per_second());
+                let mut forward_with = consumed(model, s.from, s.to, &mut coreactants);
+                let mut reverse_with = consumed(model, s.to, s.from, &mut coreactants);
                 if let Some(first) = close(to) {
                     counter = Some(index[to]);
                     to = first;
@@ -119,6 +154,7 @@ impl Network {
                     from = to;
                     to = first;
                     std::mem::swap(&mut kf, &mut kr);
+                    std::mem::swap(&mut forward_with, &mut reverse_with);
                 }
                 Reaction {
                     from: index[from],
@@ -126,6 +162,8 @@ impl Network {
                     ts: s.ts,
                     kf,
                     kr,
+                    forward_with,
+                    reverse_with,
                     counter,
                 }
             })
@@ -146,6 +184,7 @@ impl Network {
             .collect();
         Network {
             species,
+            coreactants,
             reactions,
             cycles,
         }
@@ -169,7 +208,7 @@ impl Network {
         (0..self.len()).map(|i| root(&mut parent, i)).collect()
     }
 
-    /// Number of species (the ODE's dimension).
+    /// Number of species (minima), the first entries of the state vector.
     pub fn len(&self) -> usize {
         self.species.len()
     }
@@ -179,12 +218,62 @@ impl Network {
         self.species.is_empty()
     }
 
+    /// The ODE's dimension: species, then co-reactants.
+    pub fn dim(&self) -> usize {
+        self.species.len() + self.coreactants.len()
+    }
+
+    /// Index in the state vector of co-reactant `w`.
+    pub fn free(&self, w: usize) -> usize {
+        self.species.len() + w
+    }
+
+    /// The initial state vector: `species` (one per minimum) then each
+    /// co-reactant at its stated concentration.
+    pub fn state(&self, species: &[f64]) -> Vec<f64> {
+        let mut x = species.to_vec();
+        x.extend(self.coreactants.iter().map(|c| c.stated));
+        x
+    }
+
+    /// Forward and reverse rates of reaction `r`, mol L⁻¹ s⁻¹.
+    pub fn rates(&self, r: &Reaction, x: &[f64]) -> (f64, f64) {
+        let side = |k: f64, s: usize, with: &[usize]| {
+            with.iter().fold(k * x[s], |acc, &w| {
+                acc * x[self.free(w)] / self.coreactants[w].stated
+            })
+        };
+        (
+            side(r.kf, r.from, &r.forward_with),
+            side(r.kr, r.to, &r.reverse_with),
+        )
+    }
+
     /// Net flux (forward − reverse) of every reaction, mol L⁻¹ s⁻¹.
     pub fn fluxes(&self, x: &[f64]) -> Vec<f64> {
         self.reactions
             .iter()
-            .map(|r| r.kf * x[r.from] - r.kr * x[r.to])
+            .map(|r| {
+                let (f, b) = self.rates(r, x);
+                f - b
+            })
             .collect()
+    }
+
+    /// Adds the net flux `net` of reaction `r` to dx/dt in `y`: taken from
+    /// one side, given to the other, co-reactants consumed and released.
+    fn apply(&self, r: &Reaction, net: f64, y: &mut [f64]) {
+        y[r.from] -= net;
+        y[r.to] += net;
+        if let Some(c) = r.counter {
+            y[c] += net;
+        }
+        for &w in &r.forward_with {
+            y[self.free(w)] -= net;
+        }
+        for &w in &r.reverse_with {
+            y[self.free(w)] += net;
+        }
     }
 
     /// dx/dt into `y`, as the net flux of each step moved from one state to
@@ -192,19 +281,110 @@ impl Network {
     pub fn rhs(&self, x: &[f64], y: &mut [f64]) {
         y.iter_mut().for_each(|v| *v = 0.0);
         for r in &self.reactions {
-            let net = r.kf * x[r.from] - r.kr * x[r.to];
-            y[r.from] -= net;
-            y[r.to] += net;
-            if let Some(c) = r.counter {
-                y[c] += net;
-            }
+            let (f, b) = self.rates(r, x);
+            self.apply(r, f - b, y);
         }
     }
 
-    /// The analytic Jacobian times a vector, J·v into `y` (the system is
-    /// linear, so this is the right-hand side applied to `v`).
-    pub fn jac_mul(&self, v: &[f64], y: &mut [f64]) {
-        self.rhs(v, y);
+    /// The analytic Jacobian at `x` times a vector, J·v into `y`: each net
+    /// flux differentiated along `v` (product rule over the state and the
+    /// co-reactants of each side), distributed as in [`Network::rhs`]. Every
+    /// entry of `v` a rate depends on is read even where its coefficient is
+    /// zero, so a NaN probe finds the full sparsity pattern.
+    pub fn jac_mul(&self, x: &[f64], v: &[f64], y: &mut [f64]) {
+        let along = |k: f64, s: usize, with: &[usize]| {
+            let (mut value, mut d) = (k * x[s], k * v[s]);
+            for &w in with {
+                let c = self.coreactants[w].stated;
+                let (xw, vw) = (x[self.free(w)] / c, v[self.free(w)] / c);
+                d = d * xw + value * vw;
+                value *= xw;
+            }
+            d
+        };
+        y.iter_mut().for_each(|v| *v = 0.0);
+        for r in &self.reactions {
+            let net = along(r.kf, r.from, &r.forward_with) - along(r.kr, r.to, &r.reverse_with);
+            self.apply(r, net, y);
+        }
+    }
+
+    /// The first-order network with every co-reactant held at its value in
+    /// `x` (folded into the rate constants): what the catalyst states see
+    /// at one moment, for the exact steady state of a cycle.
+    pub fn frozen(&self, x: &[f64]) -> Network {
+        let mut out = self.clone();
+        let factor = |with: &[usize]| -> f64 {
+            with.iter()
+                .map(|&w| x[self.free(w)] / self.coreactants[w].stated)
+                .product()
+        };
+        for r in &mut out.reactions {
+            r.kf *= factor(&r.forward_with);
+            r.kr *= factor(&r.reverse_with);
+            r.forward_with.clear();
+            r.reverse_with.clear();
+        }
+        out.coreactants.clear();
+        out
+    }
+
+    /// Units of co-reactant `w` bound in each species (free + bound is
+    /// conserved): +1 across every step that consumes it. For a counter, the
+    /// units one turnover's product carries away. `None` if the profile's
+    /// steps disagree (two routes to one state consume different amounts).
+    pub fn bound(&self, w: usize) -> Option<Vec<f64>> {
+        let n = self.len();
+        let delta = |r: &Reaction| {
+            let count = |with: &[usize]| with.iter().filter(|&&u| u == w).count() as f64;
+            count(&r.forward_with) - count(&r.reverse_with)
+        };
+        let mut content: Vec<Option<f64>> = vec![None; n];
+        // Closing steps of cycles are set after the rest: their `to` is the
+        // cycle's first state, their difference goes to the counter.
+        let open: Vec<&Reaction> = self
+            .reactions
+            .iter()
+            .filter(|r| r.counter.is_none())
+            .collect();
+        for start in 0..n {
+            if content[start].is_some() {
+                continue;
+            }
+            content[start] = Some(0.0);
+            let mut stack = vec![start];
+            while let Some(i) = stack.pop() {
+                let here = content[i]?;
+                for r in &open {
+                    let (j, value) = if r.from == i {
+                        (r.to, here + delta(r))
+                    } else if r.to == i {
+                        (r.from, here - delta(r))
+                    } else {
+                        continue;
+                    };
+                    match content[j] {
+                        None => {
+                            content[j] = Some(value);
+                            stack.push(j);
+                        }
+                        Some(c) if (c - value).abs() > 0.5 => return None,
+                        Some(_) => {}
+                    }
+                }
+            }
+        }
+        let mut out: Vec<f64> = content.into_iter().map(|c| c.unwrap_or(0.0)).collect();
+        for r in self.reactions.iter().filter(|r| r.counter.is_some()) {
+            let c = r.counter.expect("filtered");
+            out[c] = out[r.from] + delta(r) - out[r.to];
+        }
+        Some(out)
+    }
+
+    /// Free plus bound amount of co-reactant `w` (see [`Network::bound`]).
+    pub fn coreactant_total(&self, w: usize, bound: &[f64], x: &[f64]) -> f64 {
+        x[self.free(w)] + bound.iter().zip(x).map(|(n, v)| n * v).sum::<f64>()
     }
 
     /// The conserved amount: every species except product counters.
@@ -229,21 +409,26 @@ impl Network {
     /// state of a catalytic cycle). `atol` is the concentration below which a
     /// state counts as empty.
     pub fn settled(&self, x: &[f64], rel: f64, atol: f64) -> bool {
-        let n = self.len();
+        let n = self.dim();
         let mut dx = vec![0.0; n];
         let mut gross = vec![0.0; n];
         let mut kscale = vec![0.0; n];
         for r in &self.reactions {
-            let (f, b) = (r.kf * x[r.from], r.kr * x[r.to]);
-            dx[r.from] -= f - b;
-            dx[r.to] += f - b;
-            for i in [r.from, r.to] {
+            let (f, b) = self.rates(r, x);
+            let sides = [r.from, r.to].into_iter().chain(
+                r.forward_with
+                    .iter()
+                    .chain(&r.reverse_with)
+                    .map(|&w| self.free(w)),
+            );
+            for i in sides {
                 gross[i] += f.abs() + b.abs();
                 kscale[i] += r.kf + r.kr;
             }
         }
+        self.rhs(x, &mut dx);
         (0..n)
-            .filter(|&i| !self.species[i].counter)
+            .filter(|&i| i >= self.len() || !self.species[i].counter)
             .all(|i| dx[i].abs() <= rel * gross[i] + atol * kscale[i])
     }
 
@@ -277,6 +462,32 @@ impl Network {
         }
         out
     }
+}
+
+/// The co-reactants free in state `a` but not in state `b`: consumed going
+/// from `a` to `b`. Each is registered in `coreactants` on first use.
+fn consumed(
+    model: &Model,
+    a: PointId,
+    b: PointId,
+    coreactants: &mut Vec<Coreactant>,
+) -> Vec<usize> {
+    let after = model.extras(b).with;
+    model
+        .extras(a)
+        .with
+        .into_iter()
+        .filter(|(name, _)| !after.iter().any(|(other, _)| other == name))
+        .map(|(name, stated)| {
+            coreactants
+                .iter()
+                .position(|c| c.name == name)
+                .unwrap_or_else(|| {
+                    coreactants.push(Coreactant { name, stated });
+                    coreactants.len() - 1
+                })
+        })
+        .collect()
 }
 
 /// The reactions (indices into the analysis' steps) along a path, in order.

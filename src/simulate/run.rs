@@ -53,7 +53,8 @@ const SETTLED_REL: f64 = 1e-9;
 pub struct Sample {
     /// Time, s.
     pub t: f64,
-    /// Concentration per species (product released so far for a counter), mol/L.
+    /// The state: concentration per species (product released so far for a
+    /// counter), then per co-reactant ([`Network::coreactants`]), mol/L.
     pub x: Vec<f64>,
 }
 
@@ -115,8 +116,16 @@ pub fn simulate_network(
     progress: &mut dyn FnMut(f64, Option<f64>),
 ) -> Result<Simulation, SimulateError> {
     let by_point = options.initial.resolve(model)?;
-    let x0: Vec<f64> = network.species.iter().map(|s| by_point[s.point]).collect();
-    let pool0: f64 = pool(&network, &x0);
+    let species: Vec<f64> = network.species.iter().map(|s| by_point[s.point]).collect();
+    let mut x0 = network.state(&species);
+    for (w, c) in network.coreactants.iter().enumerate() {
+        if let Some(given) = options.initial.coreactant(&c.name) {
+            x0[network.free(w)] = given;
+        }
+    }
+    let pool_at = pool_of(&network, &x0);
+    let pool = |x: &[f64]| pool_at.iter().map(|&i| x[i]).sum::<f64>();
+    let pool0: f64 = pool(&x0);
     let has_pool = pool0 > 0.0;
     let target = match options.until {
         Until::Conversion(c) => {
@@ -132,7 +141,7 @@ pub fn simulate_network(
         Until::Time(t) => t,
         _ => TIME_LIMIT_S,
     };
-    let conversion = |x: &[f64]| 1.0 - pool(&network, x) / pool0;
+    let conversion = |x: &[f64]| 1.0 - pool(x) / pool0;
     let atol = options.tolerances.atol_fraction * network.total(&x0);
     let mut samples = vec![Sample {
         t: 0.0,
@@ -173,8 +182,7 @@ pub fn simulate_network(
     };
     integrate(&network, &x0, t_end, options.tolerances, &mut observe)?;
     let last = samples.last().expect("t = 0 recorded").x.clone();
-    let total0 = network.total(&x0);
-    let mass_error = (network.total(&last) - total0).abs() / total0;
+    let mass_error = mass_error(&network, &x0, &last);
     let most_negative = samples
         .iter()
         .flat_map(|s| s.x.iter().copied())
@@ -196,17 +204,44 @@ pub fn simulate_network(
     })
 }
 
-/// Material in the starting pool (not product, not catalyst, not counter).
-fn pool(net: &Network, x: &[f64]) -> f64 {
-    (0..net.len())
-        .filter(|&i| net.in_pool(i))
-        .map(|i| x[i])
-        .sum()
+/// The entries of the state whose loss is the conversion: the starting pool
+/// of states (not product, not catalyst, not counter) when material starts
+/// there; otherwise (all material in a catalytic cycle) the co-reactant a
+/// step consumes that starts lowest — the substrate at a catalyst loading.
+fn pool_of(net: &Network, x0: &[f64]) -> Vec<usize> {
+    let states: Vec<usize> = (0..net.len()).filter(|&i| net.in_pool(i)).collect();
+    if states.iter().any(|&i| x0[i] > 0.0) {
+        return states;
+    }
+    (0..net.coreactants.len())
+        .filter(|&w| net.reactions.iter().any(|r| r.forward_with.contains(&w)))
+        .map(|w| net.free(w))
+        .filter(|&i| x0[i] > 0.0)
+        .min_by(|&a, &b| x0[a].total_cmp(&x0[b]))
+        .into_iter()
+        .collect()
+}
+
+/// The largest relative change of a conserved amount between `x0` and `x`:
+/// the material of the states (counters aside), and each co-reactant free
+/// plus bound (when the steps give it a consistent bound content).
+fn mass_error(net: &Network, x0: &[f64], x: &[f64]) -> f64 {
+    let relative = |a: f64, b: f64| if a > 0.0 { (b - a).abs() / a } else { 0.0 };
+    let material = relative(net.total(x0), net.total(x));
+    (0..net.coreactants.len())
+        .filter_map(|w| net.bound(w).map(|n| (w, n)))
+        .map(|(w, n)| {
+            relative(
+                net.coreactant_total(w, &n, x0),
+                net.coreactant_total(w, &n, x),
+            )
+        })
+        .fold(material, f64::max)
 }
 
 /// The time inside the step at which the conversion reaches `goal`, by
 /// bisection on the integrator's interpolant (conversion rises monotonically
-/// within a step for the first-order systems eyrie builds).
+/// within a step for the mass-action systems eyrie builds).
 fn crossing(
     step: &StepView<'_>,
     goal: f64,
@@ -274,7 +309,17 @@ fn drift(net: &Network, samples: &[Sample], end: &[(PointId, f64, f64)]) -> f64 
 /// flux; it is read at the step with the smallest gross flux, where forward
 /// and reverse do not nearly cancel (beside a fast pre-equilibrium they agree
 /// to 1e-9 and more, below the integrator's resolution).
+///
+/// Co-reactants are held at their values in `x` (stated values when `x`
+/// holds the species only): the catalyst's steady state at that moment.
 pub fn turnover(net: &Network, x: &[f64]) -> Vec<(PointId, f64)> {
+    let full = if x.len() >= net.dim() {
+        x.to_vec()
+    } else {
+        net.state(&x[..net.len()])
+    };
+    let net = &net.frozen(&full);
+    let x = &full[..net.len()];
     let ss = super::steady::polish(net, x).unwrap_or_else(|| x.to_vec());
     let part = net.components();
     net.cycles
