@@ -42,51 +42,54 @@ fn reference(id: &str) -> f64 {
         .unwrap()
 }
 
-#[test]
-fn seeman_intermediate_interconversion_equals_the_simulation() {
-    // Seeman, Chem. Rev. 1983, 83, 83: the exact first-order final fraction of D
-    // from pure A with TS(AB) = 17.5 kcal/mol (wh-intermediate-pureA-final-fraction-D,
-    // written by generate.py). The run stops at 99.99 % conversion, so the
-    // simulated fraction may differ by at most the 1e-4 still unconverted.
-    let want = reference("wh-intermediate-pureA-final-fraction-D");
-    let s = selectivity(&seeman(17.5));
-    assert_eq!(s.regime, "intermediate");
-    let sim = s.simulated.as_ref().expect("simulated");
-    assert!((sim["d"] - want).abs() < 1e-4, "{} vs {want}", sim["d"]);
-    // The exact partition (the closed form analyze reports here) agrees too.
-    assert!((s.products["d"] - want).abs() < 1e-9);
-    assert_eq!(s.limit_agrees, Some(true));
-    assert!(s.limit_error.unwrap() < 0.01, "{:?}", s.limit_error);
+/// Seeman's system with TS(AB) at `ts_ab`: the regime `analyze` names, and the
+/// simulated final fraction of D against the reference value `id`. The run
+/// stops at 99.99 % conversion, so it may differ by at most the 1e-4 still
+/// unconverted. The closed form must agree within the margin.
+fn seeman_case(ts_ab: f64, regime: &str, id: &str) -> SelectivityReport {
+    let want = reference(id);
+    let s = selectivity(&seeman(ts_ab));
+    assert_eq!(s.regime, regime);
+    let d = s.simulated.as_ref().expect("simulated")["d"];
+    assert!((d - want).abs() < 1e-4, "{d} vs {want}");
+    assert_eq!(s.limit_agrees, Some(true), "{:?}", s.limit_error);
     assert_eq!(
         s.simulation_stopped,
         Some(eyrie::simulate::Stopped::Conversion)
     );
+    s
+}
+
+#[test]
+fn seeman_intermediate_interconversion_equals_the_simulation() {
+    // Seeman, Chem. Rev. 1983, 83, 83: the exact first-order final fraction of D
+    // from pure A with TS(AB) = 17.5 kcal/mol (written by generate.py).
+    let s = seeman_case(
+        17.5,
+        "intermediate",
+        "wh-intermediate-pureA-final-fraction-D",
+    );
+    // The exact partition (the closed form analyze reports here) is exact.
+    let want = reference("wh-intermediate-pureA-final-fraction-D");
+    assert!((s.products["d"] - want).abs() < 1e-9);
+    assert!(s.limit_error.unwrap() < 0.01, "{:?}", s.limit_error);
 }
 
 #[test]
 fn curtin_hammett_limit_agrees_with_the_simulation() {
-    // Fast interconversion, TS(AB) = 8 kcal/mol: Seeman's exact final fraction
-    // of D from pure A (wh-fast-pureA-final-fraction-D) against the simulation,
-    // and the Curtin–Hammett limit within the 0.1 kcal/mol margin.
-    let want = reference("wh-fast-pureA-final-fraction-D");
-    let s = selectivity(&seeman(8.0));
-    assert_eq!(s.regime, "curtin-hammett");
-    assert!((s.simulated.as_ref().unwrap()["d"] - want).abs() < 1e-4);
-    assert_eq!(s.limit_agrees, Some(true));
-    // 0.1 kcal/mol in the file's unit (common practice for "within what
-    // computed energies resolve").
+    // Fast interconversion, TS(AB) = 8 kcal/mol: Seeman's exact fraction
+    // (wh-fast-pureA-final-fraction-D); the Curtin–Hammett limit within the
+    // margin, 0.1 kcal/mol in the file's unit (common practice: below what
+    // computed energies resolve).
+    let s = seeman_case(8.0, "curtin-hammett", "wh-fast-pureA-final-fraction-D");
     assert!((s.limit_margin - 0.1).abs() < 1e-12);
 }
 
 #[test]
 fn kinetic_quench_limit_agrees_with_the_simulation() {
     // Slow interconversion, TS(AB) = 26 kcal/mol: from pure A essentially all C
-    // (Seeman's slow limit; exact final fraction of D from the reference).
-    let want = reference("wh-slow-pureA-final-fraction-D");
-    let s = selectivity(&seeman(26.0));
-    assert_eq!(s.regime, "kinetic-quench");
-    assert!((s.simulated.as_ref().unwrap()["d"] - want).abs() < 1e-4);
-    assert_eq!(s.limit_agrees, Some(true));
+    // (Seeman's slow limit; exact fraction wh-slow-pureA-final-fraction-D).
+    seeman_case(26.0, "kinetic-quench", "wh-slow-pureA-final-fraction-D");
 }
 
 /// A → C fast but reversible (C only 1 kcal/mol below A), A → D slow and

@@ -17,17 +17,17 @@ pub fn run(
     json: bool,
 ) -> Result<(), CliError> {
     let paths = files::expand(inputs)?;
-    if let [path] = &paths[..] {
-        if !inputs[0].is_dir() {
-            let report = analyze_file(path, conditions, monte_carlo)?;
-            if json {
-                let text = serde_json::to_string_pretty(&report).expect("report is plain data");
-                println!("{text}");
-            } else {
-                print!("{}", table(&report, report_decimals(&report)));
-            }
-            return Ok(());
+    if let [path] = &paths[..]
+        && !inputs[0].is_dir()
+    {
+        let report = analyze_file(path, conditions, monte_carlo)?;
+        if json {
+            let text = serde_json::to_string_pretty(&report).expect("report is plain data");
+            println!("{text}");
+        } else {
+            print!("{}", table(&report, report_decimals(&report)));
         }
+        return Ok(());
     }
     // Several profiles: each is analysed on its own; a bad one is reported by
     // name, the rest still run, and the exit code is the worst seen.
@@ -38,7 +38,7 @@ pub fn run(
             Ok(report) => {
                 if !json {
                     println!("== {} ==", path.display());
-                    print!("{}\n", table(&report, report_decimals(&report)));
+                    println!("{}", table(&report, report_decimals(&report)));
                 }
                 reports.push(
                     serde_json::json!({ "file": path.display().to_string(), "report": report }),

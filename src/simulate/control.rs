@@ -164,12 +164,15 @@ fn perturbed(model: &Model, net: &Network, target: Target, delta_rt: f64) -> Net
     }
 }
 
+/// A positive quantity of a network whose logarithmic derivatives are taken.
+type Quantity<'a> = dyn Fn(&Network) -> Result<f64, SimulateError> + Sync + 'a;
+
 /// ∂ln q/∂(−G/RT) of every target by central differences, in parallel (each
 /// target is independent, so the result does not depend on the schedule).
 fn degrees(
     model: &Model,
     net: &Network,
-    q: &(dyn Fn(&Network) -> Result<f64, SimulateError> + Sync),
+    q: &Quantity<'_>,
 ) -> Result<Vec<(Target, f64)>, SimulateError> {
     targets(model, net)
         .into_par_iter()
@@ -186,10 +189,7 @@ fn degrees(
 /// without a cycle; the stop rule is not used (r is taken at 50 % conversion).
 pub fn rate_control(model: &Model, options: &Options) -> Result<RateControl, SimulateError> {
     let net = Network::new(model, &kinetics::analyze(model));
-    let (rate, q): (
-        Rate,
-        Box<dyn Fn(&Network) -> Result<f64, SimulateError> + Sync>,
-    ) = if net.cycles.is_empty() {
+    let (rate, q): (Rate, Box<Quantity<'_>>) = if net.cycles.is_empty() {
         let options = Options {
             until: Until::Conversion(RATE_AT_CONVERSION),
             ..options.clone()
