@@ -8,6 +8,7 @@ mod convert;
 mod error;
 mod export;
 mod files;
+mod plot;
 mod render;
 mod simulate;
 mod sweep;
@@ -90,7 +91,9 @@ enum Command {
     },
     /// Product distribution across a temperature range, and the isoselective
     /// temperature where the two main products form equally fast. Energies given
-    /// as h and s change with temperature; g values do not.
+    /// as h and s change with temperature; g values do not. --plot draws the
+    /// product shares (%) against temperature (°C) with the isoselective
+    /// temperature marked.
     Sweep {
         /// The profile file (TOML; see docs/profile-format.md).
         profile: PathBuf,
@@ -109,6 +112,8 @@ enum Command {
         /// isoselective[] with products and temperature_k).
         #[arg(long)]
         json: bool,
+        #[command(flatten)]
+        plot: plot::PlotArgs,
     },
     /// Compare the measurements stated in profiles ([[observed]]: ratios, ee,
     /// rates, half-lives, TOFs) with what the barriers predict. Exits 1 when any
@@ -252,7 +257,8 @@ fn run(cli: Cli) -> Result<(), CliError> {
             to,
             steps,
             json,
-        } => sweep::run(&profile, from, to, steps, json),
+            plot,
+        } => sweep::run(&profile, from, to, steps, json, &plot),
         Command::Check { profiles, json } => match check::run(&profiles, json)? {
             Exit::Success => Ok(()),
             code => Err(CliError::Finished(code)),

@@ -30,7 +30,7 @@ impl Format {
     }
 
     /// The format an output file's extension names.
-    fn of(path: &Path) -> Result<Format, CliError> {
+    pub(crate) fn of(path: &Path) -> Result<Format, CliError> {
         let extension = path
             .extension()
             .map(|e| e.to_string_lossy().to_ascii_lowercase())
@@ -65,7 +65,7 @@ pub(crate) enum Size {
 
 impl Size {
     /// The layout preset (`layout::PRESETS`) this size names.
-    fn preset(self) -> &'static str {
+    pub(crate) fn preset(self) -> &'static str {
         match self {
             Size::Single => "article",
             Size::Double => "article-wide",
@@ -179,25 +179,7 @@ impl FigureOptions {
         let mut style = content.style().map_err(CliError::Usage)?;
         style.width_mm = self.width.unwrap_or(style.width_mm);
         style.height_mm = self.height.unwrap_or(style.height_mm);
-        if format == Format::Png {
-            let (px_w, px_h) =
-                eyrie::render::pixel_size(style.width_mm, style.height_mm, f64::from(self.dpi));
-            if px_w * px_h > eyrie::render::MAX_PIXELS {
-                return Err(CliError::Usage(format!(
-                    "a {} × {} mm PNG at {} dpi would be {px_w} × {px_h} pixels, more than \
-                     eyrie draws ({} million); lower --dpi",
-                    style.width_mm,
-                    style.height_mm,
-                    self.dpi,
-                    eyrie::render::MAX_PIXELS / 1_000_000
-                )));
-            }
-        } else if self.dpi != 600 {
-            eprintln!(
-                "note: --dpi applies to PNG only; {} is vector and has no resolution",
-                format.extension().to_uppercase()
-            );
-        }
+        check_resolution(format, &style, self.dpi)?;
         Ok(Target {
             output,
             format,
@@ -206,6 +188,44 @@ impl FigureOptions {
             dpi: self.dpi,
         })
     }
+}
+
+/// Refuses a PNG too large to draw, and notes that --dpi does nothing for
+/// vector output (shared with the charts of `sweep` and `simulate`).
+pub(crate) fn check_resolution(format: Format, style: &Style, dpi: u32) -> Result<(), CliError> {
+    if format == Format::Png {
+        let (px_w, px_h) =
+            eyrie::render::pixel_size(style.width_mm, style.height_mm, f64::from(dpi));
+        if px_w * px_h > eyrie::render::MAX_PIXELS {
+            return Err(CliError::Usage(format!(
+                "a {} × {} mm PNG at {dpi} dpi would be {px_w} × {px_h} pixels, more than \
+                 eyrie draws ({} million); lower --dpi",
+                style.width_mm,
+                style.height_mm,
+                eyrie::render::MAX_PIXELS / 1_000_000
+            )));
+        }
+    } else if dpi != 600 {
+        eprintln!(
+            "note: --dpi applies to PNG only; {} is vector and has no resolution",
+            format.extension().to_uppercase()
+        );
+    }
+    Ok(())
+}
+
+/// The scene as the bytes of a file in `format` (shared with the charts).
+pub(crate) fn encode(
+    scene: &eyrie::layout::Scene,
+    format: Format,
+    dpi: u32,
+) -> Result<Vec<u8>, CliError> {
+    let bytes = match format {
+        Format::Svg => Ok(eyrie::render::to_svg(scene).into_bytes()),
+        Format::Png => eyrie::render::to_png(scene, f64::from(dpi)),
+        Format::Pdf => eyrie::render::to_pdf(scene),
+    };
+    bytes.map_err(|e| CliError::Usage(format!("cannot draw the figure: {e}")))
 }
 
 /// The annotation kinds named on the command line ("all" for every one).
@@ -232,12 +252,7 @@ impl Target {
     pub fn draw(&self, model: &Model) -> Result<Vec<u8>, CliError> {
         let spec = eyrie::figure::diagram_spec(model, &self.content);
         let scene = eyrie::layout::layout(&spec, &self.style);
-        let bytes = match self.format {
-            Format::Svg => Ok(eyrie::render::to_svg(&scene).into_bytes()),
-            Format::Png => eyrie::render::to_png(&scene, f64::from(self.dpi)),
-            Format::Pdf => eyrie::render::to_pdf(&scene),
-        };
-        bytes.map_err(|e| CliError::Usage(format!("cannot draw the figure: {e}")))
+        encode(&scene, self.format, self.dpi)
     }
 
     /// Draws `model` and replaces the output file atomically.
@@ -333,7 +348,7 @@ fn default_output(input: &Path, format: Format) -> PathBuf {
 }
 
 /// A length in mm for a page side: a number from 20 to 1000.
-fn parse_mm(text: &str) -> Result<f64, String> {
+pub(crate) fn parse_mm(text: &str) -> Result<f64, String> {
     let value: f64 = text
         .trim()
         .trim_end_matches("mm")

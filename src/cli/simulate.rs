@@ -43,6 +43,13 @@ pub struct SimulateArgs {
     /// FILE, or alone on stdout when no FILE is given.
     #[arg(long, value_name = "FILE", num_args = 0..=1, default_missing_value = "-")]
     pub csv: Option<PathBuf>,
+    /// With --plot: time on a log10 axis (in s, from the first sample after t = 0).
+    #[arg(long, requires = "plot")]
+    pub log_time: bool,
+    // --plot: concentration (mol/L) against time of every state that ever
+    // exceeds 1e-3 of the total (cli/plot.rs).
+    #[command(flatten)]
+    pub plot: super::plot::PlotArgs,
     #[command(flatten)]
     pub conditions: super::Conditions,
 }
@@ -65,6 +72,7 @@ pub fn run(args: &SimulateArgs) -> Result<(), CliError> {
         ),
         (None, None) => Initial::Reference,
     };
+    let plot = args.plot.resolve()?;
     let (parsed, warnings) = files::load(&args.profile)?;
     eprint!("{warnings}");
     let model = args.conditions.apply(parsed.model);
@@ -75,6 +83,9 @@ pub fn run(args: &SimulateArgs) -> Result<(), CliError> {
     };
     let sim =
         with_progress(|progress| simulate::simulate(&model, &options, progress)).map_err(usage)?;
+    if let Some(target) = &plot {
+        target.write(&super::plot::concentrations(&model, &sim, args.log_time))?;
+    }
     let controls = Controls::new(&model, &options, &sim, args.rate_control);
     let csv_to_stdout = args.csv.as_deref() == Some(Path::new("-"));
     if let Some(path) = args.csv.as_deref().filter(|_| !csv_to_stdout) {

@@ -3,14 +3,16 @@
 //! covers no text, no bar and as few connectors as possible.
 
 use super::place::Placer;
-use super::scene::{Anchor, Colour, Item, Line, Rect, Role, Run, Tag, Text};
-use super::{DiagramSpec, Style, text};
+use super::scene::{Anchor, Colour, Item, Line, Rect, RichLine, Role, Run, Tag, Text};
+use super::{DiagramSpec, Style, rich, text};
 
 /// One legend row.
 #[derive(Debug, Clone, PartialEq)]
 pub struct Entry {
     /// Path name.
     pub name: String,
+    /// The name as drawn (plain for path names; charts pass parsed markup).
+    pub label: RichLine,
     /// Path colour.
     pub colour: Colour,
     /// Path dash pattern.
@@ -47,6 +49,7 @@ pub fn entries(spec: &DiagramSpec, style: &Style) -> Vec<Entry> {
         })
         .map(|(i, p)| Entry {
             name: p.name.clone(),
+            label: vec![Run::plain(p.name.clone())],
             colour: style.path_colour(i),
             dash: style.path_dash(i),
         })
@@ -58,7 +61,7 @@ fn row_height(style: &Style) -> f64 {
 }
 
 fn entry_width(e: &Entry, style: &Style) -> f64 {
-    SAMPLE + GAP + text::width_mm(&e.name, style.tick_pt)
+    SAMPLE + GAP + rich::width_mm(&e.label, style.tick_pt)
 }
 
 /// Items of one entry whose row's top-left corner is `(x, y)`.
@@ -79,7 +82,7 @@ fn entry_items(e: &Entry, style: &Style, x: f64, y: f64) -> [Item; 2] {
         Item::Text(Text {
             x: x + SAMPLE + GAP,
             y: baseline,
-            lines: vec![vec![Run::plain(e.name.clone())]],
+            lines: vec![e.label.clone()],
             size_pt: style.tick_pt,
             anchor: Anchor::Start,
             colour: style.ink,
@@ -139,11 +142,7 @@ pub fn floating(
     area: &Area,
     placer: &Placer,
 ) -> Option<Vec<Item>> {
-    let w = entries
-        .iter()
-        .map(|e| entry_width(e, style))
-        .fold(0.0, f64::max);
-    let h = entries.len() as f64 * row_height(style);
+    let (w, h) = block_size(entries, style);
     if area.x1 - area.x0 < w || area.y1 - area.y0 < h {
         return None;
     }
@@ -183,9 +182,23 @@ pub fn floating(
         }
     }
     let (_, bx, by) = best?;
+    Some(block(entries, style, bx, by))
+}
+
+/// Width and height of the vertical legend block, mm.
+pub(super) fn block_size(entries: &[Entry], style: &Style) -> (f64, f64) {
+    let w = entries
+        .iter()
+        .map(|e| entry_width(e, style))
+        .fold(0.0, f64::max);
+    (w, entries.len() as f64 * row_height(style))
+}
+
+/// The vertical legend block with its top-left corner at `(x, y)`.
+pub(super) fn block(entries: &[Entry], style: &Style, x: f64, y: f64) -> Vec<Item> {
     let mut items = Vec::new();
     for (i, e) in entries.iter().enumerate() {
-        items.extend(entry_items(e, style, bx, by + i as f64 * row_height(style)));
+        items.extend(entry_items(e, style, x, y + i as f64 * row_height(style)));
     }
-    Some(items)
+    items
 }

@@ -7,6 +7,7 @@
 
 mod annotate;
 mod axis;
+pub mod chart;
 mod columns;
 pub mod connect;
 mod legend;
@@ -18,6 +19,7 @@ mod style;
 pub mod text;
 mod vertical;
 
+pub use chart::{AxisScale, ChartSpec, Marker, Series, layout_chart};
 pub use connect::Connector;
 pub use scene::{
     Anchor, Colour, Curve, Item, Line, Rect, RichLine, Role, Run, Scene, Script, Tag, Text,
