@@ -278,8 +278,10 @@ fn build(spec: &ChartSpec, style: &Style, entries: &[Entry], strip: f64) -> Resu
     let m = style.margin_mm;
     let em = |pt: f64| pt * text::PT_MM;
     let text_h = |pt: f64| em(pt) * (text::ASCENT + text::DESCENT);
-    let tick_len = 1.0;
-    let gap = 0.6;
+    // Tick marks and their gap to the numbers grow with the type (1 mm and
+    // 0.6 mm at 7 pt).
+    let tick_len = 0.4 * em(style.tick_pt);
+    let gap = 0.25 * em(style.tick_pt);
     let parsed = |t: &Tick| markup::parse(&t.label);
     let y_tick_w = ya
         .ticks
@@ -309,7 +311,7 @@ fn build(spec: &ChartSpec, style: &Style, entries: &[Entry], strip: f64) -> Resu
         )
     };
     let (x_up, x_down) = reach(&xa);
-    let (y_up, _) = reach(&ya);
+    let (y_up, y_down) = reach(&ya);
     let has_y_title = !spec.y_title.trim().is_empty();
     let has_x_title = !spec.x_title.trim().is_empty();
 
@@ -363,7 +365,10 @@ fn build(spec: &ChartSpec, style: &Style, entries: &[Entry], strip: f64) -> Resu
     } else {
         0.0
     };
-    let y1 = (style.height_mm - m - x_title_h - x_down - x_up - gap - tick_len).max(y0 + 1.0);
+    // The x numbers start below the lowest y number, which reaches under the
+    // axis line, so the first ones of both axes never touch in the corner.
+    let x_drop = (tick_len + gap).max(centre + y_down + CLEARANCE);
+    let y1 = (style.height_mm - m - x_title_h - x_down - x_up - x_drop).max(y0 + 1.0);
     // Page y grows downwards: the lowest value sits at the bottom.
     ya.p0 = y1;
     ya.p1 = y0;
@@ -409,7 +414,7 @@ fn build(spec: &ChartSpec, style: &Style, entries: &[Entry], strip: f64) -> Resu
             ));
             Some(label(
                 px,
-                y1 + tick_len + gap + x_up,
+                y1 + x_drop + x_up,
                 &t.label,
                 style.tick_pt,
                 Anchor::Middle,
