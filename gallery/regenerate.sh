@@ -26,3 +26,12 @@ for profile in profiles/*.toml; do
   "$eyrie" render "$profile" -o "gallery/$name.svg" "${extra[@]}"
   "$eyrie" render "$profile" -o "gallery/$name.png" --dpi 300 "${extra[@]}"
 done
+# Charts (--plot): the product shares of the entropy-driven switch across
+# temperature with its isoselective point, and the demo's concentrations in time.
+charts() {
+  "$eyrie" sweep profiles/entropy-switch.toml --from "-78 C" --to "100 C" --steps 41 "$@" >/dev/null
+}
+charts --plot gallery/entropy-switch-sweep.svg
+charts --plot gallery/entropy-switch-sweep.png --dpi 300
+"$eyrie" simulate profiles/demo.toml --plot gallery/demo-concentrations.svg >/dev/null
+"$eyrie" simulate profiles/demo.toml --plot gallery/demo-concentrations.png --dpi 300 >/dev/null

@@ -267,25 +267,35 @@ fn legend_takes_the_corner_with_no_data() {
     assert!(b.x0 > (x0 + x1) / 2.0 && b.y1 < (y0 + y1) / 2.0, "{b:?}");
 }
 
-#[test]
-fn legend_moves_above_the_plot_when_every_corner_has_data() {
-    // Lines near the top and the bottom of the plot run through all four
-    // corners (lines right on the frame leave room inside it).
-    let spec = ChartSpec {
-        series: vec![
-            Series {
-                name: "top".into(),
-                points: (0..=20).map(|i| (i as f64, 95.0)).collect(),
-            },
-            Series {
-                name: "bottom".into(),
-                points: (0..=20).map(|i| (i as f64, 5.0)).collect(),
-            },
-        ],
+/// Flat lines at the given heights over an axis from 0 to 100.
+fn flat(levels: &[f64]) -> ChartSpec {
+    ChartSpec {
+        series: levels
+            .iter()
+            .map(|&y| Series {
+                name: format!("at {y}"),
+                points: (0..=20).map(|i| (i as f64, y)).collect(),
+            })
+            .collect(),
         y_include: vec![0.0, 100.0],
         ..ChartSpec::default()
-    };
-    let scene = layout_chart(&spec, &Style::default());
+    }
+}
+
+#[test]
+fn legend_moves_to_an_edge_middle_then_above_the_plot() {
+    // Lines near the top and the bottom run through all four corners (lines
+    // right on the frame would leave room inside it): the right middle is free.
+    let scene = layout_chart(&flat(&[95.0, 5.0]), &Style::default());
+    let (x0, y0, x1, y1) = plot_area(&scene);
+    let b = legend_box(&scene);
+    assert!(
+        b.x0 > (x0 + x1) / 2.0 && b.y0 > y0 + (y1 - y0) * 0.2,
+        "{b:?}"
+    );
+    assert!(b.y1 < y1 - (y1 - y0) * 0.2, "{b:?}");
+    // A third line through the middle leaves no spot inside: a strip on top.
+    let scene = layout_chart(&flat(&[95.0, 50.0, 5.0]), &Style::default());
     let (_, y0, _, _) = plot_area(&scene);
     assert!(legend_box(&scene).y1 < y0);
     assert!(scene.overlapping_texts().is_empty());

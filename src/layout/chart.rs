@@ -183,8 +183,10 @@ fn drawable(v: f64, scale: AxisScale) -> bool {
 ///
 /// The legend goes into the plot corner with the fewest data points under
 /// it (ties: fewest lines crossing it, then top right, top left, bottom
-/// right, bottom left); when every corner covers data it moves to a strip
-/// above the plot. Never panics: an empty spec gives empty axes.
+/// right, bottom left); when every corner covers data, the middles of the
+/// right, left, top and bottom edges are tried, and when those do too it
+/// moves to a strip above the plot. Never panics: an empty spec gives empty
+/// axes.
 pub fn layout_chart(spec: &ChartSpec, style: &Style) -> Scene {
     let entries: Vec<Entry> = spec
         .series
@@ -197,12 +199,11 @@ pub fn layout_chart(spec: &ChartSpec, style: &Style) -> Scene {
             dash: series_dash(style, i),
         })
         .collect();
-    match build(spec, style, &entries, 0.0) {
-        Ok(scene) => scene,
-        Err(()) => {
-            let strip = legend::strip_height(&entries, style);
-            build(spec, style, &entries, strip).unwrap_or_else(|()| unreachable!())
-        }
+    let (scene, fits) = build(spec, style, &entries, false);
+    if fits {
+        scene
+    } else {
+        build(spec, style, &entries, true).0
     }
 }
 
@@ -248,8 +249,9 @@ fn stroke(points: Vec<(f64, f64)>, style: &Style, width_pt: f64, role: Role) -> 
     })
 }
 
-/// One pass; `Err` when the legend belongs in a strip but `strip` is 0.
-fn build(spec: &ChartSpec, style: &Style, entries: &[Entry], strip: f64) -> Result<Scene, ()> {
+/// One pass, with the legend in a strip above the plot or inside it; the
+/// flag is false when no spot inside the plot was free of data.
+fn build(spec: &ChartSpec, style: &Style, entries: &[Entry], on_top: bool) -> (Scene, bool) {
     let (xs, ys) = (spec.x_scale, spec.y_scale);
     // Each series as runs of consecutive drawable points.
     let runs: Vec<Vec<Vec<(f64, f64)>>> = spec
@@ -327,6 +329,19 @@ fn build(spec: &ChartSpec, style: &Style, entries: &[Entry], strip: f64) -> Resu
     let x1 = (style.width_mm - m - x_last_w / 2.0).max(x0 + 1.0);
     xa.p0 = x0;
     xa.p1 = x1;
+    // A legend above the plot flows over the plot's width.
+    let strip_items = if on_top && !entries.is_empty() {
+        legend::in_strip(entries, style, x0, x1, m)
+    } else {
+        Vec::new()
+    };
+    let strip = strip_items
+        .iter()
+        .filter_map(|i| match i {
+            Item::Text(t) => Some(t.bbox().y1 - m + 0.5),
+            _ => None,
+        })
+        .fold(0.0, f64::max);
 
     // Marker labels above the plot, in as many rows as they need.
     let mut markers: Vec<(f64, RichLine)> = spec
@@ -512,17 +527,25 @@ fn build(spec: &ChartSpec, style: &Style, entries: &[Entry], strip: f64) -> Resu
     items.extend(texts.into_iter().map(Item::Text));
 
     // Legend.
+    let mut fits = true;
     if !entries.is_empty() {
-        if strip > 0.0 {
-            items.extend(legend::in_strip(entries, style, x0, x1, m));
+        if on_top {
+            items.extend(strip_items);
         } else {
             let (w, h) = legend::block_size(entries, style);
             let pad = 1.0;
+            let (left, right) = (x0 + pad + tick_len, x1 - pad - w);
+            let (top, bottom) = (y0 + pad, y1 - pad - h);
+            let (mid_x, mid_y) = ((x0 + x1 - w) / 2.0, (y0 + y1 - h) / 2.0);
             let corners = [
-                (x1 - pad - w, y0 + pad),
-                (x0 + pad + tick_len, y0 + pad),
-                (x1 - pad - w, y1 - pad - h),
-                (x0 + pad + tick_len, y1 - pad - h),
+                (right, top),
+                (left, top),
+                (right, bottom),
+                (left, bottom),
+                (right, mid_y),
+                (left, mid_y),
+                (mid_x, top),
+                (mid_x, bottom),
             ];
             let plot = Rect { x0, y0, x1, y1 };
             let best = corners
@@ -552,18 +575,19 @@ fn build(spec: &ChartSpec, style: &Style, entries: &[Entry], strip: f64) -> Resu
                 .min_by_key(|c| (c.1, c.2, c.3));
             match best {
                 Some((_, 0, 0, _, cx, cy)) => items.extend(legend::block(entries, style, cx, cy)),
-                _ => return Err(()),
+                _ => fits = false,
             }
         }
     }
 
-    Ok(Scene {
+    let scene = Scene {
         width_mm: style.width_mm,
         height_mm: style.height_mm,
         title: spec.title.clone(),
         font_family: style.font_family.clone(),
         items,
-    })
+    };
+    (scene, fits)
 }
 
 /// Tick labels along x, every second (third, …) one kept when neighbours
