@@ -213,7 +213,7 @@ fn series_dash(style: &Style, i: usize) -> Option<Vec<f64>> {
     if i == 0 { None } else { style.path_dash(i - 1) }
 }
 
-/// A one-line text of markup at a fixed place.
+/// A one-line text of markup at a fixed place (axis numbers and titles).
 #[allow(clippy::too_many_arguments)]
 fn label(
     x: f64,
@@ -226,27 +226,14 @@ fn label(
     style: &Style,
 ) -> Text {
     Text {
-        x,
-        y,
         lines: vec![markup::parse(s)],
-        size_pt,
-        anchor,
-        colour: style.ink,
-        rotation,
-        role,
-        tag: None,
+        ..super::fixed_text(x, y, "", size_pt, anchor, rotation, role, style)
     }
 }
 
+/// An axis or tick stroke in ink.
 fn stroke(points: Vec<(f64, f64)>, style: &Style, width_pt: f64, role: Role) -> Item {
-    Item::Line(Line {
-        points,
-        colour: style.ink,
-        width_pt,
-        dash: None,
-        role,
-        tag: None,
-    })
+    super::plain_line(points, style.ink, width_pt, role)
 }
 
 /// One pass, with the legend in a strip above the plot or inside it; the

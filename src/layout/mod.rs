@@ -157,7 +157,7 @@ struct Fit {
 
 /// A one-line upright text at a fixed place (axis texts).
 #[allow(clippy::too_many_arguments)]
-fn fixed_text(
+pub(super) fn fixed_text(
     x: f64,
     y: f64,
     s: &str,
@@ -181,7 +181,7 @@ fn fixed_text(
 }
 
 /// A straight untagged line.
-fn plain_line(points: Vec<(f64, f64)>, colour: Colour, width_pt: f64, role: Role) -> Item {
+pub(super) fn plain_line(points: Vec<(f64, f64)>, colour: Colour, width_pt: f64, role: Role) -> Item {
     Item::Line(Line {
         points,
         colour,
