@@ -303,16 +303,23 @@ fn build(spec: &ChartSpec, style: &Style, entries: &[Entry], on_top: bool) -> (S
     let (y_up, y_down) = reach(&ya);
     let has_y_title = !spec.y_title.trim().is_empty();
     let has_x_title = !spec.x_title.trim().is_empty();
+    // The y title's reach across its baseline (a superscript, as in L⁻¹,
+    // reaches above capitals), turned on its side.
+    let y_title_box = rich::block_box(
+        0.0,
+        0.0,
+        &[markup::parse(&spec.y_title)],
+        style.axis_label_pt,
+        Anchor::Start,
+        0.0,
+    );
+    let y_title_w = if has_y_title {
+        y_title_box.y1 - y_title_box.y0 + 1.0
+    } else {
+        0.0
+    };
 
-    let x0 =
-        (m + if has_y_title {
-            text_h(style.axis_label_pt) + 1.0
-        } else {
-            0.0
-        } + y_tick_w
-            + gap
-            + tick_len)
-            .max(m + x_first_w / 2.0);
+    let x0 = (m + y_title_w + y_tick_w + gap + tick_len).max(m + x_first_w / 2.0);
     let x1 = (style.width_mm - m - x_last_w / 2.0).max(x0 + 1.0);
     xa.p0 = x0;
     xa.p1 = x1;
@@ -440,7 +447,7 @@ fn build(spec: &ChartSpec, style: &Style, entries: &[Entry], on_top: bool) -> (S
     }
     if has_y_title {
         texts.push(label(
-            m + text::ASCENT * em(style.axis_label_pt),
+            m - y_title_box.y0,
             (y0 + y1) / 2.0,
             &spec.y_title,
             style.axis_label_pt,
