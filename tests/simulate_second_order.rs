@@ -226,3 +226,43 @@ fn sparse_and_dense_jacobians_give_the_same_course() {
         assert!((d - s).abs() <= 1e-8 * d.abs().max(1e-12), "{d} vs {s}");
     }
 }
+
+#[path = "common/mod.rs"]
+mod common;
+
+#[test]
+fn command_line_shows_the_co_reactant_in_csv_json_and_initial() {
+    // Shape of the output (no numbers from outside): the CSV has one column per
+    // state and one for W, every row as long as the header; the JSON lists W's
+    // final free concentration; --initial W=… sets where it starts.
+    let dir = tempfile::tempdir().unwrap();
+    let text = "unit = \"kcal/mol\"\nzero = \"A\"\n[coreactants]\nW = 0.5\n[states]\n\
+                A = { g = 0.0, with = [\"W\"] }\nP = { g = -15.0, product = true }\n\
+                [ts]\nTS = 19.0\n[[path]]\nvia = [\"A\", \"TS\", \"P\"]\n";
+    let file = common::write(dir.path(), "aw.toml", text);
+    let file = file.to_str().unwrap();
+    let out = common::eyrie(&["simulate", file, "--csv"], dir.path());
+    assert_eq!(out.status.code(), Some(0));
+    let csv = String::from_utf8(out.stdout).unwrap();
+    let mut lines = csv.lines();
+    assert_eq!(lines.next(), Some("time_s,A,P,W"));
+    let first: Vec<f64> = lines
+        .next()
+        .unwrap()
+        .split(',')
+        .map(|v| v.parse().unwrap())
+        .collect();
+    assert_eq!(first, vec![0.0, 1.0, 0.0, 0.5]);
+    assert!(csv.lines().all(|l| l.split(',').count() == 4));
+    let out = common::eyrie(
+        &["simulate", file, "--json", "--initial", "A=0.2,W=0.3"],
+        dir.path(),
+    );
+    assert_eq!(out.status.code(), Some(0));
+    let json: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
+    let w = json["coreactants"]["W"].as_f64().unwrap();
+    let p = json["final"]["P"].as_f64().unwrap();
+    // W starts at 0.3 and loses what P gains (mass balance).
+    assert!((w + p - 0.3).abs() < 1e-9, "W {w}, P {p}");
+    assert!(json["mass_error"].as_f64().unwrap() < 1e-9);
+}

@@ -216,13 +216,15 @@ fn with_progress<T>(f: impl FnOnce(&mut dyn FnMut(f64, Option<f64>)) -> T) -> T 
     out
 }
 
-/// The time course: time in s, then one column per state id.
+/// The time course: time in s, then one column per state id, then one per
+/// co-reactant consumed by a step (free concentration).
 fn csv(model: &Model, sim: &Simulation) -> String {
     let ids: Vec<&str> = sim
         .network
         .species
         .iter()
         .map(|s| model.point(s.point).id.as_str())
+        .chain(sim.network.coreactants.iter().map(|c| c.name.as_str()))
         .collect();
     let mut out = format!("time_s,{}\n", ids.join(","));
     for s in &sim.samples {
@@ -241,8 +243,13 @@ fn table(model: &Model, sim: &Simulation, controls: &Controls) -> String {
     if let Some(title) = model.title() {
         out.push_str(&format!("{title}\n"));
     }
+    let order = if sim.network.coreactants.is_empty() {
+        "every step first order"
+    } else {
+        "steps that consume a co-reactant second order, k2·[A]·[W], the rest first order"
+    };
     out.push_str(&format!(
-        "T = {}; every step first order, both directions (Eyring, as in analyze)\n",
+        "T = {}; {order}, both directions (Eyring, as in analyze)\n",
         model.temperature()
     ));
     let why = match sim.stopped {
@@ -287,6 +294,18 @@ fn table(model: &Model, sim: &Simulation, controls: &Controls) -> String {
         out.push_str(&format!(
             "  {:<width$}  {}{note}\n",
             model.point(s.point).id,
+            format::scientific(shown(*v))
+        ));
+    }
+    for (c, v) in sim
+        .network
+        .coreactants
+        .iter()
+        .zip(&sim.last().x[sim.network.len()..])
+    {
+        out.push_str(&format!(
+            "  {:<width$}  {}  (free co-reactant)\n",
+            c.name,
             format::scientific(shown(*v))
         ));
     }

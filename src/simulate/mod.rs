@@ -4,12 +4,16 @@
 //! Closed forms cover the limits (Curtin–Hammett, kinetic quench, the
 //! energetic span steady state); the simulation answers every regime in
 //! between, with the same rate constants [`crate::kinetics::analyze`] reports.
-//! Every step is first order in the model's states (co-reactants in excess are
-//! already folded into the energies as pseudo-first order). Like the rest of
-//! the computing core it never prints or writes files.
+//! Every step is first order in the model's states; a step that consumes a
+//! co-reactant (`with`) is also first order in it, k₂·[A]·[W], with the
+//! co-reactant tracked from its `[coreactants]` concentration, so the
+//! simulation equals `analyze`'s pseudo-first-order kinetics while the
+//! co-reactant is in excess and follows mass action when it runs low. Like the
+//! rest of the computing core it never prints or writes files.
 //!
 //! - [`network`]: species, reactions, net-flux right-hand side and Jacobian.
-//! - [`integrate`]: stiff adaptive BDF integration (diffsol).
+//! - [`integrate`]: stiff adaptive BDF integration (diffsol), dense LU for
+//!   small systems, sparse Jacobian and sparse LU (faer) for large ones.
 //! - [`initial`], [`until`]: where the material starts, when to stop.
 //! - [`run`]: one simulation and its summary.
 //! - [`report`]: the JSON contract.

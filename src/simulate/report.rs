@@ -21,6 +21,10 @@ pub struct SimulationReport {
     /// catalyst: product released so far).
     #[serde(rename = "final")]
     pub final_: BTreeMap<String, f64>,
+    /// Final free concentration of each co-reactant a step consumes, mol/L
+    /// (absent when no step consumes one).
+    #[serde(skip_serializing_if = "BTreeMap::is_empty")]
+    pub coreactants: BTreeMap<String, f64>,
     /// Fraction of all product formed, per product state.
     pub products: BTreeMap<String, f64>,
     /// Conversion of the starting material at the end (null without one).
@@ -84,6 +88,13 @@ impl SimulationReport {
                 .iter()
                 .zip(&sim.last().x)
                 .map(|(s, &v)| (id(s.point), v))
+                .collect(),
+            coreactants: sim
+                .network
+                .coreactants
+                .iter()
+                .zip(&sim.last().x[sim.network.len()..])
+                .map(|(c, &v)| (c.name.clone(), v))
                 .collect(),
             products: sim.products.iter().map(|&(p, _, f)| (id(p), f)).collect(),
             conversion: sim.conversion,

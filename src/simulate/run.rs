@@ -313,6 +313,10 @@ fn drift(net: &Network, samples: &[Sample], end: &[(PointId, f64, f64)]) -> f64 
 /// Co-reactants are held at their values in `x` (stated values when `x`
 /// holds the species only): the catalyst's steady state at that moment.
 pub fn turnover(net: &Network, x: &[f64]) -> Vec<(PointId, f64)> {
+    if net.cycles.is_empty() {
+        // No cycle, no turnover: skip the steady-state solve (dense LU).
+        return Vec::new();
+    }
     let full = if x.len() >= net.dim() {
         x.to_vec()
     } else {
