@@ -117,6 +117,10 @@ fn reference_cycles_match_the_energetic_span_model() {
         );
         let worst = compare_with_span(&profile);
         assert!(worst < 1e-3, "cycle {}: off by {worst}", c["name"]);
+        eprintln!(
+            "cycle {}: largest |X(simulated) − X(span)| {worst:e}",
+            c["name"]
+        );
     }
 }
 
