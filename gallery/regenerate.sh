@@ -19,6 +19,8 @@ for profile in profiles/*.toml; do
     conformers|curtin-hammett|entropy-switch|three-branch) extra=(--annotate selectivity --connectors smooth) ;;
     # Absolute hartree energies read best in kcal/mol.
     hartree-absolute) extra=(--annotate barriers --unit kcal/mol) ;;
+    # The isotopologue and the co-catalyst drawn over the profile.
+    hydride-transfer) extra=(--variants all) ;;
     # More than about 16 states need the full page width.
     dense-network) extra=(--size double --axis-break) ;;
     *) extra=(--annotate barriers --connectors smooth) ;;

@@ -5,7 +5,10 @@
 
 use crate::format;
 use crate::kinetics;
-use crate::layout::{Annotation, Connector, DiagramSpec, ShownPath, ShownPoint, Style};
+use crate::layout::{
+    Annotation, Colour, Connector, DiagramSpec, Hints, Overlay, PathLook, ShownPath, ShownPoint,
+    Style,
+};
 use crate::model::{Kind, Model, PointId};
 
 /// An annotation of computed numbers the figure may carry.
@@ -63,6 +66,9 @@ pub struct FigureOptions {
     pub decimals: Option<usize>,
     /// Style preset name (see [`crate::layout::PRESETS`]).
     pub preset: String,
+    /// Variants to draw over the profile (indices into `Model::variants`;
+    /// out-of-range indices are skipped).
+    pub variants: Vec<usize>,
 }
 
 impl Default for FigureOptions {
@@ -74,6 +80,7 @@ impl Default for FigureOptions {
             axis_break: false,
             decimals: None,
             preset: "article".into(),
+            variants: Vec::new(),
         }
     }
 }
@@ -141,6 +148,13 @@ pub fn diagram_spec(model: &Model, options: &FigureOptions) -> DiagramSpec {
                 via: p.via.clone(),
             })
             .collect(),
+        hints: hints(model),
+        overlays: options
+            .variants
+            .iter()
+            .filter(|&&i| i < model.variants().len())
+            .map(|&i| overlay(model, i, &energy))
+            .collect(),
         ..DiagramSpec::default()
     };
     let need_analysis =
@@ -188,6 +202,47 @@ pub fn diagram_spec(model: &Model, options: &FigureOptions) -> DiagramSpec {
         }
     }
     spec
+}
+
+/// The profile's own figure settings, in layout terms.
+fn hints(model: &Model) -> Hints {
+    let h = model.figure_hints();
+    Hints {
+        paths: (0..model.paths().len())
+            .map(|i| {
+                let p = h.path(i);
+                PathLook {
+                    colour: p.colour.map(Colour::hex),
+                    dash: p.dash,
+                    width_pt: p.width_pt,
+                }
+            })
+            .collect(),
+        columns: (0..model.points().len())
+            .map(|i| h.column(i).map(|c| c as f64))
+            .collect(),
+        spacing: h.spacing,
+        bar_width_mm: h.bar_width_mm,
+    }
+}
+
+/// Variant `i` as an overlay: the points whose shown energy differs from the
+/// profile's, with the variant's value. Differences too small to change the
+/// printed number are not drawn: the bars would coincide.
+fn overlay(model: &Model, i: usize, energy: &dyn Fn(f64) -> String) -> Overlay {
+    let v = &model.variants()[i];
+    let changed = model.variant(i);
+    Overlay {
+        name: v.label.clone().unwrap_or_else(|| v.name.clone()),
+        changed: model
+            .points()
+            .iter()
+            .zip(changed.points())
+            .enumerate()
+            .filter(|(_, (a, b))| energy(a.g) != energy(b.g))
+            .map(|(p, (_, b))| (p, b.g, energy(b.g)))
+            .collect(),
+    }
 }
 
 /// The ΔΔG‡ bracket between the two lowest product-forming TSs that lead to

@@ -140,6 +140,12 @@ pub(crate) struct FigureOptions {
     /// kJ/mol, 2 for eV, 4 for hartree).
     #[arg(long, value_name = "N", value_parser = clap::value_parser!(u8).range(0..=6))]
     decimals: Option<u8>,
+    /// Draw variants ([[variant]] blocks) over the profile on the same axes, each
+    /// in its own colour and dash with a legend entry: their names,
+    /// comma-separated, or "all". Only energies that differ from the profile's
+    /// get a bar and a number.
+    #[arg(long, value_name = "NAMES", value_delimiter = ',')]
+    variants: Vec<String>,
 }
 
 /// The figure options resolved against an input: file, format, content,
@@ -152,6 +158,8 @@ pub(crate) struct Target {
     content: eyrie::figure::FigureOptions,
     style: Style,
     dpi: u32,
+    /// Variant names to overlay, as given ("all" for every one).
+    variants: Vec<String>,
 }
 
 impl FigureOptions {
@@ -175,6 +183,7 @@ impl FigureOptions {
             axis_break: self.axis_break,
             decimals: self.decimals.map(usize::from),
             preset: self.size.preset().into(),
+            variants: Vec::new(),
         };
         let mut style = content.style().map_err(CliError::Usage)?;
         style.width_mm = self.width.unwrap_or(style.width_mm);
@@ -186,6 +195,12 @@ impl FigureOptions {
             content,
             style,
             dpi: self.dpi,
+            variants: self
+                .variants
+                .iter()
+                .map(|v| v.trim().to_string())
+                .filter(|v| !v.is_empty())
+                .collect(),
         })
     }
 }
@@ -247,10 +262,45 @@ fn annotations(names: &[String]) -> Result<Vec<AnnotationKind>, CliError> {
     Ok(kinds)
 }
 
+/// The indices of the variants `names` asks for in `model` ("all" for every
+/// one, in file order); an unknown name is a usage error naming the variants
+/// there are.
+fn variant_indices(names: &[String], model: &Model) -> Result<Vec<usize>, CliError> {
+    let known: Vec<&str> = model.variants().iter().map(|v| v.name.as_str()).collect();
+    let mut out = Vec::new();
+    for name in names {
+        let found: Vec<usize> = if name == "all" {
+            (0..known.len()).collect()
+        } else {
+            match known.iter().position(|k| k == name) {
+                Some(i) => vec![i],
+                None => {
+                    let have = if known.is_empty() {
+                        "the profile has no [[variant]]".to_string()
+                    } else {
+                        format!("the profile's variants are {}", known.join(", "))
+                    };
+                    return Err(CliError::Usage(format!(
+                        "unknown variant '{name}' in --variants: {have} (or write all)"
+                    )));
+                }
+            }
+        };
+        for i in found {
+            if !out.contains(&i) {
+                out.push(i);
+            }
+        }
+    }
+    Ok(out)
+}
+
 impl Target {
     /// The figure of `model` as the bytes of the output file.
     pub fn draw(&self, model: &Model) -> Result<Vec<u8>, CliError> {
-        let spec = eyrie::figure::diagram_spec(model, &self.content);
+        let mut content = self.content.clone();
+        content.variants = variant_indices(&self.variants, model)?;
+        let spec = eyrie::figure::diagram_spec(model, &content);
         let scene = eyrie::layout::layout(&spec, &self.style);
         encode(&scene, self.format, self.dpi)
     }
@@ -270,6 +320,12 @@ pub fn run(
     let target = figure.resolve(path)?;
     let (parsed, warnings) = files::load(path)?;
     eprint!("{warnings}");
+    if target.variants.iter().any(|v| v == "all") && parsed.model.variants().is_empty() {
+        eprintln!(
+            "note: {} has no [[variant]]; the profile is drawn alone",
+            path.display()
+        );
+    }
     target.write(&conditions.apply(parsed.model))?;
     eprintln!("wrote {}", target.output.display());
     Ok(())

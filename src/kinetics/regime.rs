@@ -452,6 +452,7 @@ mod tests {
             uncertainty: None,
             offsets: vec![],
             variants: vec![],
+            figure: Default::default(),
         }
     }
 

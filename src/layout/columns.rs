@@ -7,10 +7,16 @@
 //! points between two branch or end points (e.g. a lone concerted TS spanning
 //! a stepwise route) is spread evenly between them instead of hugging the
 //! left. A graph with a cycle falls back to the order along each path.
+//!
+//! A profile may pin points to columns (`pins`, 0-based). Pinned points stay
+//! where they are put and the others keep one column per step around them;
+//! where two pins leave less room than that, every step is shortened by the
+//! same factor (the largest that fits), so order along each path is kept.
 
 /// Column (possibly fractional) of every point; `None` for points on no
-/// path. `paths` holds indices below `n`.
-pub fn assign(n: usize, paths: &[Vec<usize>]) -> Vec<Option<f64>> {
+/// path. `paths` holds indices below `n`; `pins[i]`, when given, is the
+/// column of point `i` (missing entries mean no pin).
+pub fn assign(n: usize, paths: &[Vec<usize>], pins: &[Option<f64>]) -> Vec<Option<f64>> {
     let mut on = vec![false; n];
     let mut succ: Vec<Vec<usize>> = vec![Vec::new(); n];
     let mut pred: Vec<Vec<usize>> = vec![Vec::new(); n];
@@ -26,31 +32,46 @@ pub fn assign(n: usize, paths: &[Vec<usize>]) -> Vec<Option<f64>> {
             }
         }
     }
+    let pin = |v: usize| pins.get(v).copied().flatten().filter(|c| c.is_finite());
     let Some(order) = topological(n, &on, &succ, &pred) else {
-        return along_paths(n, paths);
-    };
-    let mut col = vec![0usize; n];
-    for &v in &order {
-        for &u in &pred[v] {
-            col[v] = col[v].max(col[u] + 1);
+        let mut out = along_paths(n, paths);
+        for (v, c) in out.iter_mut().enumerate() {
+            if let (Some(c), Some(p)) = (c.as_mut(), pin(v)) {
+                *c = p;
+            }
         }
-    }
+        return out;
+    };
+    let graph = Graph {
+        order: &order,
+        succ: &succ,
+        pred: &pred,
+        pins: &(0..n).map(pin).collect::<Vec<_>>(),
+    };
+    let step = graph.largest_step();
+    let mut col = graph.earliest(step);
     // Sinks to the last column of their connected network.
     let comp = components(n, &succ, &pred);
-    let mut last = vec![0usize; n];
+    let mut last = vec![f64::NEG_INFINITY; n];
     for v in 0..n {
         if on[v] {
             last[comp[v]] = last[comp[v]].max(col[v]);
         }
     }
     for v in 0..n {
-        if on[v] && succ[v].is_empty() && !pred[v].is_empty() {
+        if on[v] && succ[v].is_empty() && !pred[v].is_empty() && pin(v).is_none() {
             col[v] = last[comp[v]];
         }
     }
-    let mut out: Vec<Option<f64>> = (0..n).map(|v| on[v].then_some(col[v] as f64)).collect();
+    // A pin at the far left with points before it would push them off the
+    // page: move everything right instead (the profile refuses this case).
+    let least = (0..n)
+        .filter(|&v| on[v])
+        .map(|v| col[v])
+        .fold(0.0, f64::min);
+    let mut out: Vec<Option<f64>> = (0..n).map(|v| on[v].then_some(col[v] - least)).collect();
     // Spread runs of pass-through points between their anchors.
-    let through = |v: usize| pred[v].len() == 1 && succ[v].len() == 1;
+    let through = |v: usize| pred[v].len() == 1 && succ[v].len() == 1 && pin(v).is_none();
     for v in 0..n {
         if !on[v] || !through(v) || through(pred[v][0]) {
             continue;
@@ -63,13 +84,82 @@ pub fn assign(n: usize, paths: &[Vec<usize>]) -> Vec<Option<f64>> {
             run.push(w);
             w = succ[w][0];
         }
-        let (a, b) = (col[start] as f64, col[w] as f64);
+        let (a, b) = (col[start] - least, col[w] - least);
         let k = run.len() as f64 + 1.0;
         for (i, &r) in run.iter().enumerate() {
             out[r] = Some(a + (b - a) * (i as f64 + 1.0) / k);
         }
     }
     out
+}
+
+/// The path graph in topological order, with its pins.
+struct Graph<'a> {
+    order: &'a [usize],
+    succ: &'a [Vec<usize>],
+    pred: &'a [Vec<usize>],
+    pins: &'a [Option<f64>],
+}
+
+impl Graph<'_> {
+    /// Latest column of each point when every step is `step` columns long:
+    /// its pin, or `step` before the latest of its successors (∞ when no pin
+    /// lies downstream).
+    fn latest(&self, step: f64) -> Vec<f64> {
+        let mut hi = vec![f64::INFINITY; self.pins.len()];
+        for &v in self.order.iter().rev() {
+            let mut h = self.pins[v].unwrap_or(f64::INFINITY);
+            for &w in &self.succ[v] {
+                h = h.min(hi[w] - step);
+            }
+            hi[v] = h;
+        }
+        hi
+    }
+
+    /// Earliest column of each point with steps of `step` columns: its pin,
+    /// else `step` after its latest predecessor; a first point starts at 0
+    /// unless a pin downstream needs it further left.
+    fn earliest(&self, step: f64) -> Vec<f64> {
+        let hi = self.latest(step);
+        let mut lo = vec![0.0; self.pins.len()];
+        for &v in self.order {
+            lo[v] = match self.pins[v] {
+                Some(p) => p,
+                None if self.pred[v].is_empty() => hi[v].min(0.0),
+                None => self.pred[v]
+                    .iter()
+                    .map(|&u| lo[u] + step)
+                    .fold(f64::NEG_INFINITY, f64::max),
+            };
+        }
+        lo
+    }
+
+    /// Whether every pin can be kept with steps of `step` columns.
+    fn fits(&self, step: f64) -> bool {
+        let hi = self.latest(step);
+        let lo = self.earliest(step);
+        self.order.iter().all(|&v| {
+            self.pred[v]
+                .iter()
+                .all(|&u| lo[u] + step <= lo[v] + 1e-9 && lo[u] <= hi[u] + 1e-9)
+        })
+    }
+
+    /// One column per step when the pins allow it, else the largest shorter
+    /// step that keeps them (bisection; fitting is monotone in the step).
+    fn largest_step(&self) -> f64 {
+        if self.pins.iter().all(Option::is_none) || self.fits(1.0) {
+            return 1.0;
+        }
+        let (mut ok, mut bad) = (1.0 / 1024.0, 1.0);
+        for _ in 0..30 {
+            let mid = (ok + bad) / 2.0;
+            if self.fits(mid) { ok = mid } else { bad = mid }
+        }
+        ok
+    }
 }
 
 /// Kahn's algorithm, smallest index first so the order is deterministic;
@@ -143,7 +233,51 @@ mod tests {
 
     fn cols(n: usize, paths: &[&[usize]]) -> Vec<Option<f64>> {
         let paths: Vec<Vec<usize>> = paths.iter().map(|p| p.to_vec()).collect();
-        assign(n, &paths)
+        assign(n, &paths, &[])
+    }
+
+    fn pinned(n: usize, paths: &[&[usize]], pins: &[(usize, f64)]) -> Vec<f64> {
+        let paths: Vec<Vec<usize>> = paths.iter().map(|p| p.to_vec()).collect();
+        let mut p = vec![None; n];
+        for &(i, c) in pins {
+            p[i] = Some(c);
+        }
+        assign(n, &paths, &p)
+            .into_iter()
+            .map(Option::unwrap)
+            .collect()
+    }
+
+    #[test]
+    fn a_pin_to_the_right_leaves_a_gap_and_keeps_the_rest() {
+        // a → t1 → b → t2 → c with b pinned to column 4: a, t1 keep 0 and 1
+        // (t1 is then spread halfway), c follows b's pin.
+        let c = pinned(5, &[&[0, 1, 2, 3, 4]], &[(2, 4.0)]);
+        assert_eq!(c, vec![0.0, 2.0, 4.0, 5.0, 6.0]);
+    }
+
+    #[test]
+    fn pins_closer_than_the_steps_between_them_shorten_every_step() {
+        // Four steps between pins 0 and 2: each step is half a column.
+        let c = pinned(5, &[&[0, 1, 2, 3, 4]], &[(0, 0.0), (4, 2.0)]);
+        assert_eq!(c, vec![0.0, 0.5, 1.0, 1.5, 2.0]);
+        // Order along the path is kept whatever the pins.
+        assert!(c.windows(2).all(|w| w[0] < w[1]));
+    }
+
+    #[test]
+    fn products_align_unless_pinned() {
+        // Two branches from a; pa pinned to column 3, pb follows the usual rule.
+        let c = pinned(5, &[&[0, 1, 2], &[0, 3, 4]], &[(2, 3.0)]);
+        assert_eq!(c[2], 3.0);
+        assert_eq!(c[4], 3.0); // sink moved to the last column of the network
+        assert_eq!(c[1], 1.5);
+    }
+
+    #[test]
+    fn a_pin_at_the_left_edge_with_points_before_it_shifts_everything() {
+        let c = pinned(3, &[&[0, 1, 2]], &[(1, 0.0)]);
+        assert_eq!(c, vec![0.0, 1.0, 2.0]);
     }
 
     #[test]

@@ -12,6 +12,7 @@ mod columns;
 pub mod connect;
 mod legend;
 pub mod markup;
+mod overlay;
 mod place;
 pub mod rich;
 mod scene;
@@ -21,10 +22,11 @@ mod vertical;
 
 pub use chart::{AxisScale, ChartSpec, Marker, Series, layout_chart};
 pub use connect::Connector;
+pub use overlay::Overlay;
 pub use scene::{
     Anchor, Colour, Curve, Item, Line, Rect, RichLine, Role, Run, Scene, Script, Tag, Text,
 };
-pub use style::{OKABE_ITO, PRESETS, Style};
+pub use style::{Hints, OKABE_ITO, PRESETS, PathLook, Style};
 
 use crate::model::Kind;
 use place::{Placer, Request, Side};
@@ -112,6 +114,10 @@ pub struct DiagramSpec {
     pub annotations: Vec<Annotation>,
     /// Points to emphasise (the rate-determining states).
     pub highlight: Vec<usize>,
+    /// The profile's own settings: path looks, pinned columns, spacing.
+    pub hints: Hints,
+    /// Variants drawn over the base profile, in legend order.
+    pub overlays: Vec<Overlay>,
 }
 
 /// Lays out `spec` on a page of `style`'s size.
@@ -128,6 +134,7 @@ pub struct DiagramSpec {
 /// is laid out again with smaller type (never below `min_text_pt`), so a
 /// crowded figure shrinks uniformly instead of overlapping.
 pub fn layout(spec: &DiagramSpec, style: &Style) -> Scene {
+    let style = &style.with_hints(&spec.hints);
     let mut last = None;
     for scale in [1.0, 0.9, 0.8, 0.7] {
         let mut s = style.clone();
@@ -136,7 +143,7 @@ pub fn layout(spec: &DiagramSpec, style: &Style) -> Scene {
         }
         let (mut scene, mut fit) = build(spec, &s, 0.0);
         if !fit.legend {
-            let strip = legend::strip_height(&legend::entries(spec, &s), &s);
+            let strip = legend::strip_height(&legend::entries(&overlay::legend_spec(spec), &s), &s);
             (scene, fit) = build(spec, &s, strip);
         }
         if fit.texts {
@@ -181,7 +188,12 @@ pub(super) fn fixed_text(
 }
 
 /// A straight untagged line.
-pub(super) fn plain_line(points: Vec<(f64, f64)>, colour: Colour, width_pt: f64, role: Role) -> Item {
+pub(super) fn plain_line(
+    points: Vec<(f64, f64)>,
+    colour: Colour,
+    width_pt: f64,
+    role: Role,
+) -> Item {
     Item::Line(Line {
         points,
         colour,
@@ -222,6 +234,7 @@ fn build(spec: &DiagramSpec, style: &Style, legend_strip: f64) -> (Scene, Fit) {
     let values: Vec<f64> = (0..n)
         .filter(|&i| drawable[i])
         .map(|i| spec.points[i].value)
+        .chain(overlay::values(spec))
         .collect();
     let m = style.margin_mm;
     let em = |pt: f64| pt * text::PT_MM;
@@ -252,7 +265,11 @@ fn build(spec: &DiagramSpec, style: &Style, legend_strip: f64) -> (Scene, Fit) {
     let y_of = |v: f64| scale.y(v);
 
     // Horizontal positions.
-    let mut cols = columns::assign(n, &paths.iter().map(|(_, v)| v.clone()).collect::<Vec<_>>());
+    let mut cols = columns::assign(
+        n,
+        &paths.iter().map(|(_, v)| v.clone()).collect::<Vec<_>>(),
+        &spec.hints.columns,
+    );
     let mut next = cols.iter().flatten().fold(-1.0f64, |a, &c| a.max(c.ceil())) + 1.0;
     for i in 0..n {
         if drawable[i] && cols[i].is_none() {
@@ -262,7 +279,7 @@ fn build(spec: &DiagramSpec, style: &Style, legend_strip: f64) -> (Scene, Fit) {
     }
     let ncols = next.max(1.0);
     let col_w = (plot_x1 - plot_x0) / ncols;
-    let base_bar = style.bar_width_mm.min(0.65 * col_w);
+    let base_bar = style.bar_length(col_w);
     let mut x = vec![0.0; n];
     let mut bar_w = vec![base_bar; n];
     let y: Vec<f64> = (0..n)
@@ -431,7 +448,7 @@ fn build(spec: &DiagramSpec, style: &Style, legend_strip: f64) -> (Scene, Fit) {
                     items.push(Item::Line(Line {
                         points: vec![from, to],
                         colour: style.path_colour(*pi),
-                        width_pt: style.connector_pt,
+                        width_pt: style.path_width(*pi),
                         dash: style.path_dash(*pi),
                         role: Role::Connector,
                         tag,
@@ -444,7 +461,7 @@ fn build(spec: &DiagramSpec, style: &Style, legend_strip: f64) -> (Scene, Fit) {
                         start: from,
                         segments: vec![c],
                         colour: style.path_colour(*pi),
-                        width_pt: style.connector_pt,
+                        width_pt: style.path_width(*pi),
                         dash: style.path_dash(*pi),
                         role: Role::Connector,
                         tag,
@@ -504,6 +521,14 @@ fn build(spec: &DiagramSpec, style: &Style, legend_strip: f64) -> (Scene, Fit) {
             y1: y[i] + half,
         });
     }
+    let frame = overlay::Frame {
+        paths: &paths,
+        x: &x,
+        y: &y,
+        bar_w: &bar_w,
+        drawable: &drawable,
+    };
+    let overlay_items = overlay::draw(spec, &frame, &y_of, style, &mut placer);
 
     // Annotation marks block text before any text is placed.
     let ids: Vec<String> = spec.points.iter().map(|p| p.id.clone()).collect();
@@ -630,6 +655,45 @@ fn build(spec: &DiagramSpec, style: &Style, legend_strip: f64) -> (Scene, Fit) {
             );
         }
     }
+    // Each variant's values beside its own bars, tagged with its name.
+    for o in &spec.overlays {
+        for (i, v, value_text) in &o.changed {
+            if *i >= n || !drawable[*i] || !v.is_finite() || value_text.trim().is_empty() {
+                continue;
+            }
+            let runs = vec![Run::plain(value_text.clone())];
+            let (vx, vy) = (x[*i], y_of(*v));
+            let side = if *v >= spec.points[*i].value {
+                Side::Above
+            } else {
+                Side::Below
+            };
+            let req = Request {
+                x: vx,
+                y: vy,
+                half_thickness: half_t,
+                side,
+                text: &runs,
+                size_pt: style.value_pt,
+                min_pt: style.min_text_pt.min(style.value_pt),
+                breakable: false,
+            };
+            let origin = match side {
+                Side::Above => (vx, vy - half_t),
+                Side::Below => (vx, vy + half_t),
+            };
+            let bar = (vx - bar_w[*i] / 2.0, vx + bar_w[*i] / 2.0, vy);
+            let tag = Some(Tag::Path(o.name.clone()));
+            let _ = settle(
+                &mut placer,
+                &place::candidates(&req),
+                origin,
+                Some(bar),
+                Role::Value,
+                tag,
+            );
+        }
+    }
     for (a, (mx, top, bottom), drawing) in marks {
         let lines: Vec<RichLine> = a.lines().iter().map(|l| markup::parse(l)).collect();
         let cands = place::beside(mx, top, bottom, &lines, style.annotation_text_pt);
@@ -649,13 +713,15 @@ fn build(spec: &DiagramSpec, style: &Style, legend_strip: f64) -> (Scene, Fit) {
         }
     }
 
+    overlay::colour_values(&mut placed_texts, spec, style);
     items.extend(annotation_items);
     items.extend(leaders);
+    items.extend(overlay_items);
     items.extend(bars);
     items.extend(fixed_texts.into_iter().map(Item::Text));
     items.extend(placed_texts);
 
-    let entries = legend::entries(spec, style);
+    let entries = legend::entries(&overlay::legend_spec(spec), style);
     let mut legend_ok = true;
     if entries.len() > 1 {
         let area = legend::Area {

@@ -4,6 +4,31 @@
 
 use super::connect::Connector;
 use super::scene::Colour;
+use crate::model::Dash;
+
+/// A path's own look, as the profile asks for it; `None` keeps the style's.
+#[derive(Debug, Clone, Copy, PartialEq, Default)]
+pub struct PathLook {
+    /// Colour of the path's connectors, bars and legend sample.
+    pub colour: Option<Colour>,
+    /// Pattern of its connectors.
+    pub dash: Option<Dash>,
+    /// Stroke of its connectors in pt.
+    pub width_pt: Option<f64>,
+}
+
+/// What the profile says about its own figure, applied over the style.
+#[derive(Debug, Clone, PartialEq, Default)]
+pub struct Hints {
+    /// One look per path of the spec (may be shorter than the paths).
+    pub paths: Vec<PathLook>,
+    /// Pinned column of each point, 0-based (may be shorter than the points).
+    pub columns: Vec<Option<f64>>,
+    /// Gap between neighbouring bars as a multiple of the bar length.
+    pub spacing: Option<f64>,
+    /// Preferred bar length in mm.
+    pub bar_width_mm: Option<f64>,
+}
 
 /// Okabe, M. & Ito, K. (2008) "Color Universal Design (CUD): how to make
 /// figures and presentations that are friendly to colorblind people",
@@ -77,6 +102,11 @@ pub struct Style {
     pub highlight: Colour,
     /// Colour of the zero line.
     pub zero_colour: Colour,
+    /// Per-path overrides of colour, dash and width (by path index).
+    pub path_looks: Vec<PathLook>,
+    /// Gap between neighbouring bars as a multiple of the bar length, when
+    /// the profile sets it; otherwise bars take at most 65 % of a column.
+    pub bar_gap: Option<f64>,
 }
 
 impl Default for Style {
@@ -114,27 +144,74 @@ impl Default for Style {
             annotation_text_pt: 6.5,
             highlight: Colour::hex(0xD9D9D9),
             zero_colour: Colour::hex(0xBFBFBF),
+            path_looks: Vec::new(),
+            bar_gap: None,
         }
     }
 }
 
 impl Style {
+    fn look(&self, i: usize) -> PathLook {
+        self.path_looks.get(i).copied().unwrap_or_default()
+    }
+
     /// The colour of path number `i`.
     pub fn path_colour(&self, i: usize) -> Colour {
-        if self.palette.is_empty() {
+        if let Some(c) = self.look(i).colour {
+            c
+        } else if self.palette.is_empty() {
             self.ink
         } else {
             self.palette[i % self.palette.len()]
         }
     }
 
-    /// The dash pattern of path number `i`.
+    /// The dash pattern of path number `i`. A named pattern scales with the
+    /// path's stroke, so a heavier line keeps its look.
     pub fn path_dash(&self, i: usize) -> Option<Vec<f64>> {
+        if let Some(d) = self.look(i).dash {
+            let k = self.path_width(i) / Style::default().connector_pt;
+            let pattern: &[f64] = match d {
+                Dash::Solid => return None,
+                Dash::Dashed => &[2.4, 1.2],
+                Dash::Dotted => &[0.4, 0.6],
+                Dash::DashDot => &[2.4, 0.6, 0.4, 0.6],
+            };
+            return Some(pattern.iter().map(|v| v * k).collect());
+        }
         if self.dashes.is_empty() {
             None
         } else {
             Some(self.dashes[i % self.dashes.len()].clone())
         }
+    }
+
+    /// The connector stroke of path number `i`, in pt.
+    pub fn path_width(&self, i: usize) -> f64 {
+        self.look(i).width_pt.unwrap_or(self.connector_pt)
+    }
+
+    /// Length of an energy bar in a column `col_w` mm wide: the preferred
+    /// length, shortened so the gap to the next bar keeps its share.
+    pub fn bar_length(&self, col_w: f64) -> f64 {
+        match self.bar_gap {
+            Some(gap) => self.bar_width_mm.min(col_w / (1.0 + gap)),
+            None => self.bar_width_mm.min(0.65 * col_w),
+        }
+    }
+
+    /// The style with the profile's own settings applied. A `spacing` without
+    /// a `bar_width` lets bars grow with their columns.
+    pub fn with_hints(&self, hints: &Hints) -> Style {
+        let mut s = self.clone();
+        s.path_looks = hints.paths.clone();
+        s.bar_gap = hints.spacing;
+        match (hints.bar_width_mm, hints.spacing) {
+            (Some(w), _) => s.bar_width_mm = w,
+            (None, Some(_)) => s.bar_width_mm = s.width_mm,
+            (None, None) => {}
+        }
+        s
     }
 }
 

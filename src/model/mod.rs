@@ -6,8 +6,10 @@
 //! unique, every path alternates minima and transition states correctly,
 //! energies are finite and already shifted so the `zero` state is 0.
 
+mod hints;
 mod observed;
 
+pub use hints::{Dash, FigureHints, PathStyle};
 pub use observed::{Observation, ObservedKind, Target};
 
 use crate::units::{EnergyUnit, Temperature};
@@ -159,6 +161,8 @@ pub struct Model {
     pub(crate) offsets: Vec<f64>,
     /// Variants of the mechanism (`[[variant]]`).
     pub(crate) variants: Vec<Variant>,
+    /// How the file asks its figure to look (path styles, pinned columns).
+    pub(crate) figure: FigureHints,
 }
 
 /// The same mechanism with some energies changed (`[[variant]]`): an
@@ -167,6 +171,8 @@ pub struct Model {
 pub struct Variant {
     /// Name used in reports and for `kind = "kie"` observations.
     pub name: String,
+    /// Text for figure legends, when it differs from the name.
+    pub label: Option<String>,
     /// Energy shift of each changed point, in the model's unit.
     pub shifts: Vec<(PointId, f64)>,
 }
@@ -302,6 +308,11 @@ impl Model {
         let mut m = self.perturbed(&offsets);
         m.variants.clear();
         m
+    }
+
+    /// The figure settings stated in the file.
+    pub fn figure_hints(&self) -> &FigureHints {
+        &self.figure
     }
 
     /// The measurements stated in the file.

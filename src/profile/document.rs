@@ -17,7 +17,7 @@ use crate::units::{EnergyUnit, Temperature};
 /// reference temperature of tabulated free energies.
 pub const DEFAULT_TEMPERATURE_K: f64 = 298.15;
 
-const TOP_KEYS: [&str; 14] = [
+const TOP_KEYS: [&str; 15] = [
     "title",
     "temperature",
     "unit",
@@ -32,11 +32,12 @@ const TOP_KEYS: [&str; 14] = [
     "observed",
     "uncertainty",
     "variant",
+    "figure",
 ];
-const STATE_KEYS: [&str; 8] = [
-    "g", "h", "s", "label", "product", "species", "with", "sigma",
+const STATE_KEYS: [&str; 9] = [
+    "g", "h", "s", "label", "product", "species", "with", "sigma", "column",
 ];
-const TS_KEYS: [&str; 8] = [
+const TS_KEYS: [&str; 9] = [
     "g",
     "h",
     "s",
@@ -45,9 +46,10 @@ const TS_KEYS: [&str; 8] = [
     "imaginary_frequency",
     "kappa",
     "sigma",
+    "column",
 ];
 const UNCERTAINTY_KEYS: [&str; 5] = ["sigma", "systematic", "samples", "seed", "level"];
-const PATH_KEYS: [&str; 3] = ["name", "via", "cycle"];
+const PATH_KEYS: [&str; 7] = ["name", "via", "cycle", "colour", "color", "dash", "width"];
 const NOT_YET_ENERGY: &str = "give the free energy as g, e.g. { g = 17.9 }, or enthalpy and \
      entropy as h and s; electronic energies (e) come in a later version";
 
@@ -84,6 +86,8 @@ pub(crate) struct RawPoint {
     pub kappa: Option<f64>,
     /// `sigma`: this point's energy uncertainty, in the file's unit.
     pub sigma: Option<f64>,
+    /// `column`: the figure column it is pinned to (0-based), with where.
+    pub column: Option<(usize, Range<usize>)>,
 }
 
 /// The `[uncertainty]` table as written.
@@ -104,6 +108,8 @@ pub(crate) struct RawPath {
     pub via: Option<Vec<Located>>,
     /// `cycle = true`: one turnover of a catalytic cycle, with where it is written.
     pub cycle: Option<(bool, Range<usize>)>,
+    /// `colour`, `dash`, `width`: how the path is drawn.
+    pub style: crate::model::PathStyle,
 }
 
 /// The whole file, read but not yet cross-checked.
@@ -133,6 +139,8 @@ pub(crate) struct RawProfile {
     pub paths: Vec<RawPath>,
     /// Whether any `path` key was present (even if unreadable).
     pub has_path_key: bool,
+    /// `[figure]`: spacing and bar width.
+    pub figure: crate::profile::figure::RawFigure,
 }
 
 /// Reads the top-level table, appending every problem to `errors`.
@@ -164,6 +172,7 @@ pub(crate) fn read(root: &DeTable<'_>, errors: &mut Vec<Diagnostic>) -> RawProfi
             "observed" => raw.observed = crate::profile::observed::read(value, errors),
             "uncertainty" => raw.uncertainty = read_uncertainty(value, errors),
             "variant" => raw.variants = crate::profile::variant::read(value, errors),
+            "figure" => raw.figure = crate::profile::figure::read_table(value, errors),
             "states" => {
                 raw.states_span = Some(value.span());
                 read_points(value, Kind::Minimum, &mut raw.points, errors);
@@ -308,6 +317,7 @@ fn read_point(
         imaginary_frequency: None,
         kappa: None,
         sigma: None,
+        column: None,
     };
     let what_g = format!("the free energy g of '{id}'");
     match value.get_ref() {
@@ -356,6 +366,7 @@ fn read_point(
                     }
                     ("kappa", Kind::TransitionState) => point.kappa = read_kappa(v, &id, errors),
                     ("sigma", _) => point.sigma = non_negative(v, &format!("sigma of '{id}'"), errors),
+                    ("column", _) => point.column = crate::profile::figure::read_column(v, &id, errors),
                     ("e", _) => {
                         reserved = true;
                         errors.push(fields::reserved(k, NOT_YET_ENERGY));
@@ -452,6 +463,7 @@ fn read_path(
         name: None,
         via: None,
         cycle: None,
+        style: crate::model::PathStyle::default(),
     };
     let mut has_via = false;
     for (k, v) in fields::entries(table) {
@@ -472,6 +484,7 @@ fn read_path(
             "cycle" => {
                 path.cycle = fields::boolean(v, "cycle", errors).map(|b| (b, v.span()));
             }
+            _ if crate::profile::figure::read_path_key(k, v, number, &mut path.style, errors) => {}
             _ => errors.push(fields::unknown_key(
                 k,
                 &format!("in path {number}"),

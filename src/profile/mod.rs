@@ -14,6 +14,7 @@
 mod document;
 mod energy;
 mod fields;
+mod figure;
 mod network;
 mod observed;
 mod suggest;
@@ -72,6 +73,7 @@ pub fn parse(text: &str) -> Result<Parsed, Vec<Diagnostic>> {
         ));
     }
     let (paths, paths_ok) = network::resolve_paths(&points, &raw.paths, &mut errors);
+    figure::check_pins(&points, &paths, &mut errors);
     let zero = energy::resolve_zero(raw.zero.as_ref(), &points, &mut errors);
     let start = network::resolve_start(raw.start.as_deref().unwrap_or(&[]), &points, &mut errors);
     let variants = variant::resolve(
@@ -186,6 +188,15 @@ pub fn parse(text: &str) -> Result<Parsed, Vec<Diagnostic>> {
                 level: u.level.unwrap_or(0.95),
             }
         });
+    let figure = crate::model::FigureHints {
+        paths: paths.iter().map(|p| p.style).collect(),
+        columns: points
+            .iter()
+            .map(|p| p.column.as_ref().map(|c| c.0))
+            .collect(),
+        spacing: raw.figure.spacing,
+        bar_width_mm: raw.figure.bar_width_mm,
+    };
     let model = Model {
         title: raw.title,
         temperature,
@@ -210,6 +221,7 @@ pub fn parse(text: &str) -> Result<Parsed, Vec<Diagnostic>> {
         uncertainty,
         offsets: Vec::new(),
         variants,
+        figure,
     };
     let mut model = model;
     model.refresh();

@@ -16,6 +16,8 @@ pub(crate) struct ResolvedPath {
     pub name: String,
     pub via: Vec<PointId>,
     pub cycle: bool,
+    /// How the file asks the path to be drawn.
+    pub style: crate::model::PathStyle,
 }
 
 /// Orders the points as the model does (states, then transition states, each
@@ -128,6 +130,7 @@ pub(crate) fn resolve_paths(
             name,
             via: ids,
             cycle,
+            style: path.style,
         });
     }
     (resolved, all_ok)

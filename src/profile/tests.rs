@@ -467,3 +467,71 @@ fn unused_points_and_missing_products_warn() {
     assert_eq!(w.len(), 1);
     assert!(w[0].message.starts_with("no state is a product"));
 }
+
+#[test]
+fn figure_keys_reach_the_model_as_hints() {
+    use crate::model::Dash;
+    let text = LINEAR
+        .replace("b = -3.0", "b = { g = -3.0, column = 4 }")
+        .replace(
+            "[[path]]\nvia",
+            "[figure]\nspacing = 1.5\nbar_width = \"8 mm\"\n[[path]]\ncolor = \"#07B\"\ndash = \"Dash_Dot\"\nwidth = \"1.2 pt\"\nvia",
+        );
+    let m = model(&text);
+    let h = m.figure_hints();
+    assert_eq!(h.column(id(&m, "b")), Some(3)); // written 1-based
+    assert_eq!(h.column(id(&m, "a")), None);
+    assert_eq!(h.spacing, Some(1.5));
+    assert_eq!(h.bar_width_mm, Some(8.0));
+    let p = h.path(0);
+    assert_eq!(p.colour, Some(0x0077BB));
+    assert_eq!(p.dash, Some(Dash::DashDot));
+    assert_eq!(p.width_pt, Some(1.2));
+}
+
+#[test]
+fn bad_figure_values_are_located_errors() {
+    let text = LINEAR.replace(
+        "[[path]]\nvia",
+        "[[path]]\ncolour = \"blue\"\ndash = \"dashd\"\nwidth = 40\nvia",
+    );
+    let e = errors(&text);
+    let messages: Vec<&str> = e.iter().map(|d| d.message.as_str()).collect();
+    assert_eq!(
+        messages,
+        [
+            "cannot read the colour 'blue'",
+            "unknown dash pattern 'dashd'",
+            "the line width is 40 pt, outside 0.1–6 pt",
+        ]
+    );
+    assert!(
+        e[1].help
+            .as_deref()
+            .unwrap()
+            .contains("did you mean 'dashed'?")
+    );
+}
+
+#[test]
+fn pins_must_increase_along_the_paths() {
+    // c after b after a: c pinned left of a.
+    let text = LINEAR
+        .replace("a = 0.0", "a = { g = 0.0, column = 3 }")
+        .replace("label = \"final\"", "label = \"final\", column = 2");
+    let e = errors(&text);
+    assert_eq!(e.len(), 1, "{e:#?}");
+    assert_eq!(
+        e[0].message,
+        "'c' is pinned to column 2, but it comes after 'a' (column 3) on a path"
+    );
+    // Equal columns conflict too; increasing ones do not.
+    assert_eq!(errors(&text.replace("column = 2", "column = 3")).len(), 1);
+    model(&text.replace("column = 2", "column = 5"));
+    // Nothing can stand left of column 1.
+    let e = errors(&LINEAR.replace("b = -3.0", "b = { g = -3.0, column = 1 }"));
+    assert_eq!(
+        e[0].message,
+        "'b' is pinned to column 1, but 'ts-ab' comes before it on a path"
+    );
+}

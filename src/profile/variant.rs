@@ -14,7 +14,7 @@ use crate::profile::document::RawPoint;
 use crate::profile::fields::{self, Value};
 use crate::units::{AVOGADRO, EnergyUnit, PLANCK, SPEED_OF_LIGHT};
 
-const KEYS: [&str; 4] = ["name", "g", "shift", "zpe"];
+const KEYS: [&str; 5] = ["name", "label", "g", "shift", "zpe"];
 const ZPE_KEYS: [&str; 2] = ["ts", "stretch"];
 
 /// Atomic masses in u (NIST, AME2016): ¹²C, ¹H, ²H.
@@ -37,6 +37,8 @@ enum Change {
 #[derive(Debug, Clone)]
 pub(crate) struct RawVariant {
     name: Option<(String, Range<usize>)>,
+    /// Legend text for figures.
+    label: Option<String>,
     span: Range<usize>,
     changes: Vec<(String, Range<usize>, Change)>,
 }
@@ -73,6 +75,7 @@ fn read_one(
 ) -> RawVariant {
     let mut v = RawVariant {
         name: None,
+        label: None,
         span,
         changes: Vec::new(),
     };
@@ -81,6 +84,10 @@ fn read_one(
             "name" => {
                 v.name = fields::string(val, "the variant name", "name = \"D\"", errors)
                     .map(|s| (s.to_string(), val.span()))
+            }
+            "label" => {
+                v.label = fields::string(val, "the variant label", "label = \"C–D\"", errors)
+                    .map(str::to_string)
             }
             key @ ("g" | "shift") => {
                 let DeValue::Table(t) = val.get_ref() else {
@@ -241,7 +248,11 @@ pub(crate) fn resolve(
                 shifts.push((i, d));
             }
         }
-        out.push(Variant { name, shifts });
+        out.push(Variant {
+            name,
+            label: v.label,
+            shifts,
+        });
     }
     out
 }
