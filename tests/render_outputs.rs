@@ -298,6 +298,13 @@ fn watch_redraws_on_save_and_keeps_the_last_good_figure() {
         .spawn()
         .unwrap();
     let mut running = Running(child);
+    // Collect what it prints while it runs: a line may come a moment after
+    // the figure it reports, so the checks below wait for it.
+    let stdout = collect(running.0.stdout.take().unwrap());
+    let stderr = collect(running.0.stderr.take().unwrap());
+    let printed = |log: &std::sync::Arc<std::sync::Mutex<Vec<u8>>>| {
+        String::from_utf8_lossy(&log.lock().unwrap()).into_owned()
+    };
     assert!(wait_for(|| out.exists()), "first figure not written");
     let first = std::fs::read_to_string(&out).unwrap();
     assert!(first.contains("27.3"));
@@ -322,27 +329,35 @@ fn watch_redraws_on_save_and_keeps_the_last_good_figure() {
         "figure not redrawn after the fix"
     );
 
-    // Stop it and read what it told the user.
+    assert!(
+        wait_for(|| printed(&stdout).matches("updated fig.svg").count() >= 3),
+        "{}",
+        printed(&stdout)
+    );
+    assert!(
+        wait_for(|| printed(&stderr).contains("figure not updated")),
+        "{}",
+        printed(&stderr)
+    );
     let _ = running.0.kill();
     let _ = running.0.wait();
-    let mut stdout = String::new();
-    let mut stderr = String::new();
-    running
-        .0
-        .stdout
-        .take()
-        .unwrap()
-        .read_to_string(&mut stdout)
-        .unwrap();
-    running
-        .0
-        .stderr
-        .take()
-        .unwrap()
-        .read_to_string(&mut stderr)
-        .unwrap();
+    let (stdout, stderr) = (printed(&stdout), printed(&stderr));
     assert!(stdout.contains("apparent barrier"), "{stdout}");
-    assert!(stdout.matches("updated fig.svg").count() >= 3, "{stdout}");
     assert!(stderr.contains("mech.toml:"), "no located error: {stderr}");
-    assert!(stderr.contains("figure not updated"), "{stderr}");
+}
+
+/// Reads a child's pipe on a thread into a shared string.
+fn collect(mut pipe: impl Read + Send + 'static) -> std::sync::Arc<std::sync::Mutex<Vec<u8>>> {
+    let log = std::sync::Arc::new(std::sync::Mutex::new(Vec::new()));
+    let sink = log.clone();
+    std::thread::spawn(move || {
+        let mut buf = [0u8; 4096];
+        while let Ok(n) = pipe.read(&mut buf) {
+            if n == 0 {
+                break;
+            }
+            sink.lock().unwrap().extend_from_slice(&buf[..n]);
+        }
+    });
+    log
 }
