@@ -9,6 +9,7 @@ use super::render::{self, Format, Size};
 use eyrie::layout::{AxisScale, ChartSpec, Series, Style};
 use eyrie::model::Model;
 use eyrie::simulate::Simulation;
+use eyrie::simulate::run::Sample;
 use std::path::PathBuf;
 
 /// Chart output options, shared by the commands that draw one.
@@ -112,9 +113,16 @@ fn time_unit(t_end: f64) -> (&'static str, f64) {
 
 /// Concentration (mol/L) against time of every state that ever exceeds
 /// [`SHOWN_FRACTION`] of the total, from the simulation's samples. On a log
-/// time axis (seconds) the course starts at the first sample after t = 0.
+/// time axis (seconds) the course starts one decade before anything has
+/// changed by that fraction: the integrator's first steps (1e-12 s and less)
+/// would otherwise spread a flat line over most of the width.
 pub fn concentrations(model: &Model, sim: &Simulation, log_time: bool) -> ChartSpec {
     let total: f64 = sim.samples.first().map_or(0.0, |s| s.x.iter().sum());
+    let t_start = if log_time {
+        log_start(&sim.samples, SHOWN_FRACTION * total)
+    } else {
+        0.0
+    };
     let (unit, factor) = if log_time {
         ("s", 1.0)
     } else {
@@ -140,7 +148,7 @@ pub fn concentrations(model: &Model, sim: &Simulation, log_time: bool) -> ChartS
                 points: sim
                     .samples
                     .iter()
-                    .filter(|p| !log_time || p.t > 0.0)
+                    .filter(|p| !log_time || (p.t > 0.0 && p.t >= t_start))
                     .map(|p| (p.t / factor, p.x[i]))
                     .collect(),
             }
@@ -162,9 +170,45 @@ pub fn concentrations(model: &Model, sim: &Simulation, log_time: bool) -> ChartS
     }
 }
 
+/// One decade before the first sample at which some concentration has moved
+/// by more than `threshold` from where it started (0 when nothing moves).
+fn log_start(samples: &[Sample], threshold: f64) -> f64 {
+    let Some(first) = samples.first() else {
+        return 0.0;
+    };
+    samples
+        .iter()
+        .find(|s| {
+            s.t > 0.0
+                && s.x
+                    .iter()
+                    .zip(&first.x)
+                    .any(|(x, x0)| (x - x0).abs() > threshold)
+        })
+        .map_or(0.0, |s| s.t / 10.0)
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    #[test]
+    fn log_time_starts_a_decade_before_the_first_change() {
+        let at = |t: f64, a: f64| Sample {
+            t,
+            x: vec![a, 1.0 - a],
+        };
+        // Nothing moves by more than 1e-3 before t = 2 s.
+        let samples = [
+            at(0.0, 1.0),
+            at(1e-12, 1.0),
+            at(1e-6, 0.9999),
+            at(2.0, 0.99),
+            at(50.0, 0.5),
+        ];
+        assert_eq!(log_start(&samples, 1e-3), 0.2);
+        assert_eq!(log_start(&samples[..2], 1e-3), 0.0);
+    }
 
     #[test]
     fn time_units_keep_numbers_readable() {
