@@ -254,12 +254,10 @@ pub struct SelectivityReport {
 }
 
 impl SelectivityReport {
-    /// The closed-form analysis with its check by simulation.
+    /// The closed-form analysis (unchecked: see [`Self::check_by_simulation`]).
     fn new(model: &Model, s: &crate::kinetics::regime::Selectivity) -> SelectivityReport {
-        use crate::simulate::fractions::{agreement_margin, limit_error, simulated_fractions};
         let id = |p: usize| model.point(p).id.clone();
-        let unit = model.unit();
-        let mut report = SelectivityReport {
+        SelectivityReport {
             regime: s.regime.name(),
             products: s.products.iter().map(|&(p, f)| (id(p), f)).collect(),
             ddg: s.ddg,
@@ -271,20 +269,46 @@ impl SelectivityReport {
             simulation_stopped: None,
             limit_agrees: None,
             limit_error: None,
-            limit_margin: agreement_margin(unit),
+            limit_margin: crate::simulate::fractions::agreement_margin(model.unit()),
             simulation_note: None,
-        };
-        match simulated_fractions(model, &s.start) {
-            Ok(sim) => {
-                let error = limit_error(&s.products, &sim.products, model.temperature().rt(unit));
-                report.simulated = Some(sim.products.iter().map(|&(p, f)| (id(p), f)).collect());
-                report.simulation_stopped = Some(sim.stopped);
-                report.limit_agrees = Some(error <= report.limit_margin);
-                report.limit_error = Some(error);
-            }
-            Err(e) => report.simulation_note = Some(format!("not simulated: {e}")),
         }
-        report
+    }
+
+    /// Simulates `model` from the same start and fills in `simulated` and how
+    /// far the closed form is from it (or `simulation_note`, why not).
+    pub fn check_by_simulation(&mut self, model: &Model) {
+        use crate::simulate::fractions::{limit_error, simulated_fractions};
+        let point = |id: &String| model.find(id).expect("ids come from this model");
+        let start: Vec<usize> = self.start.iter().map(point).collect();
+        let closed: Vec<(usize, f64)> = self.products.iter().map(|(k, &f)| (point(k), f)).collect();
+        match simulated_fractions(model, &start) {
+            Ok(sim) => {
+                let rt = model.temperature().rt(model.unit());
+                let error = limit_error(&closed, &sim.products, rt);
+                self.simulated = Some(
+                    sim.products
+                        .iter()
+                        .map(|&(p, f)| (model.point(p).id.clone(), f))
+                        .collect(),
+                );
+                self.simulation_stopped = Some(sim.stopped);
+                self.limit_agrees = Some(error <= self.limit_margin);
+                self.limit_error = Some(error);
+            }
+            Err(e) => self.simulation_note = Some(format!("not simulated: {e}")),
+        }
+    }
+}
+
+impl AnalysisReport {
+    /// The same report with the selectivity checked by simulation (what
+    /// `analyze` shows; `watch` and `export` skip it, as they show only the
+    /// closed form and must stay quick).
+    pub fn with_simulation_check(mut self, model: &Model) -> AnalysisReport {
+        if let Some(s) = &mut self.selectivity {
+            s.check_by_simulation(model);
+        }
+        self
     }
 }
 

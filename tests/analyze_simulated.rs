@@ -8,6 +8,7 @@ use eyrie::report::{AnalysisReport, SelectivityReport};
 fn selectivity(text: &str) -> SelectivityReport {
     let model = eyrie::profile::parse(text).expect("valid profile").model;
     AnalysisReport::new(&model, &eyrie::kinetics::analyze(&model))
+        .with_simulation_check(&model)
         .selectivity
         .expect("two products")
 }

@@ -74,7 +74,7 @@ fn analyze_file(
     eprint!("{warnings}");
     let model = conditions.apply(parsed.model);
     let analysis = kinetics::analyze(&model);
-    let mut report = AnalysisReport::new(&model, &analysis);
+    let mut report = AnalysisReport::new(&model, &analysis).with_simulation_check(&model);
     report.uncertainty = super::uncertainty::run(&model, monte_carlo)
         .map(|mc| eyrie::report::UncertaintyReport::new(&model, &mc));
     Ok(report)
