@@ -5,10 +5,7 @@
 
 use crate::format;
 use crate::kinetics;
-use crate::layout::{
-    Annotation, Colour, Connector, DiagramSpec, Hints, Overlay, PathLook, ShownPath, ShownPoint,
-    Style,
-};
+use crate::layout::{Annotation, Connector, DiagramSpec, Overlay, ShownPath, ShownPoint, Style};
 use crate::model::{Kind, Model, PointId};
 
 /// An annotation of computed numbers the figure may carry.
@@ -148,7 +145,7 @@ pub fn diagram_spec(model: &Model, options: &FigureOptions) -> DiagramSpec {
                 via: p.via.clone(),
             })
             .collect(),
-        hints: hints(model),
+        hints: model.figure_hints().clone(),
         overlays: options
             .variants
             .iter()
@@ -202,28 +199,6 @@ pub fn diagram_spec(model: &Model, options: &FigureOptions) -> DiagramSpec {
         }
     }
     spec
-}
-
-/// The profile's own figure settings, in layout terms.
-fn hints(model: &Model) -> Hints {
-    let h = model.figure_hints();
-    Hints {
-        paths: (0..model.paths().len())
-            .map(|i| {
-                let p = h.path(i);
-                PathLook {
-                    colour: p.colour.map(Colour::hex),
-                    dash: p.dash,
-                    width_pt: p.width_pt,
-                }
-            })
-            .collect(),
-        columns: (0..model.points().len())
-            .map(|i| h.column(i).map(|c| c as f64))
-            .collect(),
-        spacing: h.spacing,
-        bar_width_mm: h.bar_width_mm,
-    }
 }
 
 /// Variant `i` as an overlay: the points whose shown energy differs from the

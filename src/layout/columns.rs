@@ -16,7 +16,7 @@
 /// Column (possibly fractional) of every point; `None` for points on no
 /// path. `paths` holds indices below `n`; `pins[i]`, when given, is the
 /// column of point `i` (missing entries mean no pin).
-pub fn assign(n: usize, paths: &[Vec<usize>], pins: &[Option<f64>]) -> Vec<Option<f64>> {
+pub fn assign(n: usize, paths: &[Vec<usize>], pins: &[Option<usize>]) -> Vec<Option<f64>> {
     let mut on = vec![false; n];
     let mut succ: Vec<Vec<usize>> = vec![Vec::new(); n];
     let mut pred: Vec<Vec<usize>> = vec![Vec::new(); n];
@@ -32,7 +32,7 @@ pub fn assign(n: usize, paths: &[Vec<usize>], pins: &[Option<f64>]) -> Vec<Optio
             }
         }
     }
-    let pin = |v: usize| pins.get(v).copied().flatten().filter(|c| c.is_finite());
+    let pin = |v: usize| pins.get(v).copied().flatten().map(|c| c as f64);
     let Some(order) = topological(n, &on, &succ, &pred) else {
         let mut out = along_paths(n, paths);
         for (v, c) in out.iter_mut().enumerate() {
@@ -236,7 +236,7 @@ mod tests {
         assign(n, &paths, &[])
     }
 
-    fn pinned(n: usize, paths: &[&[usize]], pins: &[(usize, f64)]) -> Vec<f64> {
+    fn pinned(n: usize, paths: &[&[usize]], pins: &[(usize, usize)]) -> Vec<f64> {
         let paths: Vec<Vec<usize>> = paths.iter().map(|p| p.to_vec()).collect();
         let mut p = vec![None; n];
         for &(i, c) in pins {
@@ -252,14 +252,14 @@ mod tests {
     fn a_pin_to_the_right_leaves_a_gap_and_keeps_the_rest() {
         // a → t1 → b → t2 → c with b pinned to column 4: a, t1 keep 0 and 1
         // (t1 is then spread halfway), c follows b's pin.
-        let c = pinned(5, &[&[0, 1, 2, 3, 4]], &[(2, 4.0)]);
+        let c = pinned(5, &[&[0, 1, 2, 3, 4]], &[(2, 4)]);
         assert_eq!(c, vec![0.0, 2.0, 4.0, 5.0, 6.0]);
     }
 
     #[test]
     fn pins_closer_than_the_steps_between_them_shorten_every_step() {
         // Four steps between pins 0 and 2: each step is half a column.
-        let c = pinned(5, &[&[0, 1, 2, 3, 4]], &[(0, 0.0), (4, 2.0)]);
+        let c = pinned(5, &[&[0, 1, 2, 3, 4]], &[(0, 0), (4, 2)]);
         assert_eq!(c, vec![0.0, 0.5, 1.0, 1.5, 2.0]);
         // Order along the path is kept whatever the pins.
         assert!(c.windows(2).all(|w| w[0] < w[1]));
@@ -268,7 +268,7 @@ mod tests {
     #[test]
     fn products_align_unless_pinned() {
         // Two branches from a; pa pinned to column 3, pb follows the usual rule.
-        let c = pinned(5, &[&[0, 1, 2], &[0, 3, 4]], &[(2, 3.0)]);
+        let c = pinned(5, &[&[0, 1, 2], &[0, 3, 4]], &[(2, 3)]);
         assert_eq!(c[2], 3.0);
         assert_eq!(c[4], 3.0); // sink moved to the last column of the network
         assert_eq!(c[1], 1.5);
@@ -276,7 +276,7 @@ mod tests {
 
     #[test]
     fn a_pin_at_the_left_edge_with_points_before_it_shifts_everything() {
-        let c = pinned(3, &[&[0, 1, 2]], &[(1, 0.0)]);
+        let c = pinned(3, &[&[0, 1, 2]], &[(1, 0)]);
         assert_eq!(c, vec![0.0, 1.0, 2.0]);
     }
 

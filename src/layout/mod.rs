@@ -26,7 +26,7 @@ pub use overlay::Overlay;
 pub use scene::{
     Anchor, Colour, Curve, Item, Line, Rect, RichLine, Role, Run, Scene, Script, Tag, Text,
 };
-pub use style::{Hints, OKABE_ITO, PRESETS, PathLook, Style};
+pub use style::{OKABE_ITO, PRESETS, Style};
 
 use crate::model::Kind;
 use place::{Placer, Request, Side};
@@ -115,7 +115,7 @@ pub struct DiagramSpec {
     /// Points to emphasise (the rate-determining states).
     pub highlight: Vec<usize>,
     /// The profile's own settings: path looks, pinned columns, spacing.
-    pub hints: Hints,
+    pub hints: crate::model::FigureHints,
     /// Variants drawn over the base profile, in legend order.
     pub overlays: Vec<Overlay>,
 }

@@ -4,31 +4,7 @@
 
 use super::connect::Connector;
 use super::scene::Colour;
-use crate::model::Dash;
-
-/// A path's own look, as the profile asks for it; `None` keeps the style's.
-#[derive(Debug, Clone, Copy, PartialEq, Default)]
-pub struct PathLook {
-    /// Colour of the path's connectors, bars and legend sample.
-    pub colour: Option<Colour>,
-    /// Pattern of its connectors.
-    pub dash: Option<Dash>,
-    /// Stroke of its connectors in pt.
-    pub width_pt: Option<f64>,
-}
-
-/// What the profile says about its own figure, applied over the style.
-#[derive(Debug, Clone, PartialEq, Default)]
-pub struct Hints {
-    /// One look per path of the spec (may be shorter than the paths).
-    pub paths: Vec<PathLook>,
-    /// Pinned column of each point, 0-based (may be shorter than the points).
-    pub columns: Vec<Option<f64>>,
-    /// Gap between neighbouring bars as a multiple of the bar length.
-    pub spacing: Option<f64>,
-    /// Preferred bar length in mm.
-    pub bar_width_mm: Option<f64>,
-}
+use crate::model::{Dash, FigureHints, PathStyle};
 
 /// Okabe, M. & Ito, K. (2008) "Color Universal Design (CUD): how to make
 /// figures and presentations that are friendly to colorblind people",
@@ -103,7 +79,7 @@ pub struct Style {
     /// Colour of the zero line.
     pub zero_colour: Colour,
     /// Per-path overrides of colour, dash and width (by path index).
-    pub path_looks: Vec<PathLook>,
+    pub path_looks: Vec<PathStyle>,
     /// Gap between neighbouring bars as a multiple of the bar length, when
     /// the profile sets it; otherwise bars take at most 65 % of a column.
     pub bar_gap: Option<f64>,
@@ -151,14 +127,14 @@ impl Default for Style {
 }
 
 impl Style {
-    fn look(&self, i: usize) -> PathLook {
+    fn look(&self, i: usize) -> PathStyle {
         self.path_looks.get(i).copied().unwrap_or_default()
     }
 
     /// The colour of path number `i`.
     pub fn path_colour(&self, i: usize) -> Colour {
         if let Some(c) = self.look(i).colour {
-            c
+            Colour::hex(c)
         } else if self.palette.is_empty() {
             self.ink
         } else {
@@ -202,7 +178,7 @@ impl Style {
 
     /// The style with the profile's own settings applied. A `spacing` without
     /// a `bar_width` lets bars grow with their columns.
-    pub fn with_hints(&self, hints: &Hints) -> Style {
+    pub fn with_hints(&self, hints: &FigureHints) -> Style {
         let mut s = self.clone();
         s.path_looks = hints.paths.clone();
         s.bar_gap = hints.spacing;

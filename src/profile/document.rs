@@ -710,7 +710,7 @@ fn read_coreactants(value: &Value<'_>, errors: &mut Vec<Diagnostic>) -> Vec<(Loc
 
 fn read_species(value: &Value<'_>, id: &str, errors: &mut Vec<Diagnostic>) -> Option<u32> {
     let n = fields::finite_number(value, &format!("species of '{id}'"), errors)?;
-    if n >= 1.0 && n <= 100.0 && n.fract() == 0.0 {
+    if (1.0..=100.0).contains(&n) && n.fract() == 0.0 {
         Some(n as u32)
     } else {
         errors.push(
@@ -814,7 +814,7 @@ fn read_uncertainty(value: &Value<'_>, errors: &mut Vec<Diagnostic>) -> Option<R
             "samples" => {
                 let n = fields::finite_number(v, "samples", errors);
                 match n {
-                    Some(n) if n >= 10.0 && n <= 1e8 && n.fract() == 0.0 => {
+                    Some(n) if (10.0..=1e8).contains(&n) && n.fract() == 0.0 => {
                         u.samples = Some(n as usize)
                     }
                     Some(n) => errors.push(

@@ -166,7 +166,7 @@ pub(crate) fn read_column(
     errors: &mut Vec<Diagnostic>,
 ) -> Option<(usize, Range<usize>)> {
     let n = fields::finite_number(value, &format!("the column of '{id}'"), errors)?;
-    if n >= 1.0 && n <= MAX_COLUMN && n.fract() == 0.0 {
+    if (1.0..=MAX_COLUMN).contains(&n) && n.fract() == 0.0 {
         Some((n as usize - 1, value.span()))
     } else {
         errors.push(
