@@ -793,19 +793,8 @@ fn non_negative(value: &Value<'_>, what: &str, errors: &mut Vec<Diagnostic>) -> 
 }
 
 fn read_uncertainty(value: &Value<'_>, errors: &mut Vec<Diagnostic>) -> Option<RawUncertainty> {
-    let DeValue::Table(table) = value.get_ref() else {
-        errors.push(
-            Diagnostic::error(
-                value.span(),
-                format!(
-                    "[uncertainty] must be a table, found {}",
-                    fields::kind_of(value.get_ref())
-                ),
-            )
-            .with_help("e.g.\n[uncertainty]\nsigma = 1.5\nsamples = 10000\nseed = 1"),
-        );
-        return None;
-    };
+    let example = "sigma = 1.5\nsamples = 10000\nseed = 1";
+    let table = fields::section(value, "uncertainty", example, errors)?;
     let mut u = RawUncertainty::default();
     for (k, v) in fields::entries(table) {
         match k.get_ref().as_ref() {

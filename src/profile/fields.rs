@@ -127,6 +127,29 @@ pub(crate) fn boolean(value: &Value<'_>, what: &str, errors: &mut Vec<Diagnostic
     }
 }
 
+/// The table a `[name]` section holds, or an error at the value with
+/// `example` as the fix.
+pub(crate) fn section<'a, 'i>(
+    value: &'a Value<'i>,
+    name: &str,
+    example: &str,
+    errors: &mut Vec<Diagnostic>,
+) -> Option<&'a DeTable<'i>> {
+    match value.get_ref() {
+        DeValue::Table(table) => Some(table),
+        other => {
+            errors.push(
+                Diagnostic::error(
+                    value.span(),
+                    format!("[{name}] must be a table, found {}", kind_of(other)),
+                )
+                .with_help(format!("e.g.\n[{name}]\n{example}")),
+            );
+            None
+        }
+    }
+}
+
 /// Keys reserved for the next versions of the format: recognised, but refused
 /// with a clear "not yet supported" rather than ignored.
 pub(crate) fn reserved(key: &Key<'_>, help: &str) -> Diagnostic {

@@ -185,17 +185,8 @@ pub(crate) fn read_column(
 /// The `[figure]` table.
 pub(crate) fn read_table(value: &Value<'_>, errors: &mut Vec<Diagnostic>) -> RawFigure {
     let mut out = RawFigure::default();
-    let DeValue::Table(table) = value.get_ref() else {
-        errors.push(
-            Diagnostic::error(
-                value.span(),
-                format!(
-                    "[figure] must be a table, found {}",
-                    fields::kind_of(value.get_ref())
-                ),
-            )
-            .with_help("e.g.\n[figure]\nspacing = 1.5\nbar_width = \"8 mm\""),
-        );
+    let example = "spacing = 1.5\nbar_width = \"8 mm\"";
+    let Some(table) = fields::section(value, "figure", example, errors) else {
         return out;
     };
     for (k, v) in fields::entries(table) {
