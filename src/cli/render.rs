@@ -301,7 +301,10 @@ impl Target {
         let mut content = self.content.clone();
         content.variants = variant_indices(&self.variants, model)?;
         let spec = eyrie::figure::diagram_spec(model, &content);
-        let scene = eyrie::layout::layout(&spec, &self.style);
+        let (scene, crowding) = eyrie::layout::layout_report(&spec, &self.style);
+        if let Some(w) = crowding.warning(&self.style) {
+            eprintln!("warning: {}: {w}", self.output.display());
+        }
         encode(&scene, self.format, self.dpi)
     }
 

@@ -23,6 +23,7 @@ mod vertical;
 pub use chart::{AxisScale, ChartSpec, Marker, Series, layout_chart};
 pub use connect::Connector;
 pub use overlay::Overlay;
+pub use place::ATTACH_MM;
 pub use scene::{
     Anchor, Colour, Curve, Item, Line, Rect, RichLine, Role, Run, Scene, Script, Tag, Text,
 };
@@ -131,12 +132,67 @@ pub struct DiagramSpec {
 /// and an empty spec gives an empty axis.
 ///
 /// When some text finds no free spot at the style's sizes, the whole figure
-/// is laid out again with smaller type (never below `min_text_pt`), so a
-/// crowded figure shrinks uniformly instead of overlapping.
+/// is laid out again with smaller type, down to [`SMALLEST_SHRINK`] of the
+/// preset's size (6 pt for the 7 pt article type) and never below
+/// `min_text_pt`, so a crowded figure shrinks uniformly. A text that still
+/// finds no free spot is left out rather than drawn over another; see
+/// [`layout_report`] for what was left out.
 pub fn layout(spec: &DiagramSpec, style: &Style) -> Scene {
+    layout_report(spec, style).0
+}
+
+/// The smallest fraction of the preset's type the layout shrinks to.
+pub const SMALLEST_SHRINK: f64 = 6.0 / 7.0;
+
+/// What a page too small for its figure had to leave out.
+#[derive(Debug, Clone, PartialEq, Default)]
+pub struct Crowding {
+    /// Texts (values, labels, annotations) that found no free spot.
+    pub left_out: Vec<String>,
+    /// The figure had annotations (fewer of them would help).
+    pub annotated: bool,
+}
+
+impl Crowding {
+    /// A one-line warning naming what was left out and which option gives
+    /// the figure room, or `None` when everything fitted.
+    pub fn warning(&self, style: &Style) -> Option<String> {
+        if self.left_out.is_empty() {
+            return None;
+        }
+        let shown: Vec<String> = self
+            .left_out
+            .iter()
+            .take(4)
+            .map(|t| format!("'{t}'"))
+            .collect();
+        let more = match self.left_out.len() {
+            n if n > 4 => format!(" and {} more", n - 4),
+            _ => String::new(),
+        };
+        let mut help = if style.width_mm < 170.0 {
+            "use --size double (175 mm wide)".to_string()
+        } else {
+            "use a larger --width/--height".to_string()
+        };
+        if self.annotated {
+            help.push_str(", or fewer --annotate items");
+        }
+        Some(format!(
+            "the {:.0} × {:.0} mm figure cannot hold every text legibly: \
+             left out {}{more}; {help}",
+            style.width_mm,
+            style.height_mm,
+            shown.join(", ")
+        ))
+    }
+}
+
+/// [`layout`], also telling what did not fit.
+pub fn layout_report(spec: &DiagramSpec, style: &Style) -> (Scene, Crowding) {
     let style = &style.with_hints(&spec.hints);
-    let mut last = None;
-    for scale in [1.0, 0.9, 0.8, 0.7] {
+    let mut best: Option<(Scene, Crowding)> = None;
+    for scale in [1.0, 0.93, SMALLEST_SHRINK] {
         let mut s = style.clone();
         for size in [&mut s.label_pt, &mut s.value_pt, &mut s.annotation_text_pt] {
             *size = (*size * scale).max(style.min_text_pt.min(*size));
@@ -146,18 +202,34 @@ pub fn layout(spec: &DiagramSpec, style: &Style) -> Scene {
             let strip = legend::strip_height(&legend::entries(&overlay::legend_spec(spec), &s), &s);
             (scene, fit) = build(spec, &s, strip);
         }
-        if fit.texts {
-            return scene;
+        if fit.left_out.is_empty() {
+            return (scene, Crowding::default());
         }
-        last = Some(scene);
+        // Keep the pass that left out least (the larger type on a tie).
+        if best
+            .as_ref()
+            .is_none_or(|(_, c)| fit.left_out.len() < c.left_out.len())
+        {
+            let annotated = !spec.annotations.is_empty();
+            best = Some((
+                scene,
+                Crowding {
+                    left_out: fit.left_out,
+                    annotated,
+                },
+            ));
+        }
     }
-    last.expect("at least one pass")
+    best.expect("at least one pass")
 }
+
+/// Thickness of the band behind a highlighted bar, in bar thicknesses.
+const HIGHLIGHT: f64 = 2.2;
 
 /// What fitted in one pass.
 struct Fit {
-    /// Every value, label and annotation text found a free spot.
-    texts: bool,
+    /// Texts that found no free spot (and were left out).
+    left_out: Vec<String>,
     /// The legend (if needed) found a free spot.
     legend: bool,
 }
@@ -246,8 +318,13 @@ fn build(spec: &DiagramSpec, style: &Style, legend_strip: f64) -> (Scene, Fit) {
     // Room for a value and a label stacked above the highest bar.
     let top_y =
         m + legend_strip + text_h(style.value_pt) + text::LINE_HEIGHT * em(style.label_pt) + 1.0;
-    let bottom_y =
-        (style.height_mm - m - caption_h - text_h(style.label_pt) - 0.8).max(top_y + 1.0);
+    let bottom_y = (style.height_mm
+        - m
+        - caption_h
+        - text_h(style.label_pt)
+        - 0.65
+        - style.bar_pt * text::PT_MM / 2.0 * HIGHLIGHT)
+        .max(top_y + 1.0);
     let scale = vertical::Scale::new(&values, style.axis_break, top_y, bottom_y);
     let tick_values: Vec<f64> = scale.ticks().collect();
     let tick_texts: Vec<String> = tick_values
@@ -478,7 +555,8 @@ fn build(spec: &DiagramSpec, style: &Style, legend_strip: f64) -> (Scene, Fit) {
             x0: axis_x + 0.3,
             y0: m + legend_strip,
             x1: style.width_mm - m,
-            y1: style.height_mm - m,
+            // Nothing goes beside the x caption: it would read as part of it.
+            y1: style.height_mm - m - caption_h,
         },
         blocked: fixed_texts.iter().map(Text::bbox).collect(),
         segments,
@@ -492,14 +570,14 @@ fn build(spec: &DiagramSpec, style: &Style, legend_strip: f64) -> (Scene, Fit) {
         let mut half = half_t;
         if spec.highlight.contains(&i) {
             let pad = 0.5;
-            half = half_t * 2.2;
+            half = half_t * HIGHLIGHT;
             bars.push(Item::Line(Line {
                 points: vec![
                     (x[i] - bar_w[i] / 2.0 - pad, y[i]),
                     (x[i] + bar_w[i] / 2.0 + pad, y[i]),
                 ],
                 colour: style.highlight,
-                width_pt: style.bar_pt * 2.2,
+                width_pt: style.bar_pt * HIGHLIGHT,
                 dash: None,
                 role: Role::Highlight,
                 tag: tag.clone(),
@@ -562,40 +640,41 @@ fn build(spec: &DiagramSpec, style: &Style, legend_strip: f64) -> (Scene, Fit) {
     });
     let mut leaders = Vec::new();
     let mut placed_texts = Vec::new();
-    let mut texts_fit = true;
+    let mut left_out = Vec::new();
     let mut settle = |placer: &mut Placer,
                       cands: &[place::Candidate],
                       origin: (f64, f64),
                       bar: Option<(f64, f64, f64)>,
                       role: Role,
                       tag: Option<Tag>| {
-        let chosen = match placer.choose(cands, origin) {
-            Some(c) => c.clone(),
-            // An annotation with no free spot is left out rather than
-            // forced on top of something.
-            None if role == Role::AnnotationText => return false,
+        // A leader may start anywhere along the bar but its last quarter.
+        let reach = bar.map_or(0.0, |(x0, x1, _)| (x1 - x0) / 4.0);
+        let chosen = match placer.choose_from(cands, origin, reach) {
+            Some(c) => c,
+            // No free spot: left out (and reported) rather than drawn on
+            // top of something.
             None => {
-                texts_fit = false;
-                match cands.first() {
-                    Some(c) => c.clone(),
-                    None => return false,
+                if let Some(c) = cands.first() {
+                    let lines: Vec<String> = c.lines.iter().map(|l| rich::plain(l)).collect();
+                    left_out.push(lines.join(" "));
                 }
+                return false;
             }
         };
         let r = chosen.bbox();
         placer.block(r);
-        // A text that no longer sits over its bar, or sits more than two
-        // lines away from it, gets a leader line back to its owner.
-        let far = 2.0 * text::LINE_HEIGHT * em(chosen.size_pt) + 1.0;
-        let strays = match bar {
-            Some((bx0, bx1, by)) => {
-                let vertical_gap = (r.y0 - by).max(by - r.y1).max(0.0);
-                r.x1 < bx0 || r.x0 > bx1 || vertical_gap > far
-            }
-            None => false,
-        };
+        // A text that no longer sits right over (or under) its bar gets a
+        // leader line back to its owner.
+        let own: Vec<Rect> = placed_texts
+            .iter()
+            .filter_map(|t| match t {
+                Item::Text(t) if t.tag.is_some() && t.tag == tag => Some(t.bbox()),
+                _ => None,
+            })
+            .collect();
+        let strays = bar.is_some_and(|b| !place::attached(&r, b, &own));
         if chosen.leader || strays {
-            let to = r.nearest(origin.0, origin.1);
+            let (origin, to) = place::leader(origin, reach, &r);
             placer.segments.push((origin, to));
             leaders.push(Item::Line(Line {
                 points: vec![origin, to],
@@ -629,10 +708,16 @@ fn build(spec: &DiagramSpec, style: &Style, legend_strip: f64) -> (Scene, Fit) {
             if rich::plain(&runs).trim().is_empty() {
                 continue;
             }
+            // A highlighted bar is thicker: its texts keep clear of the band.
+            let half = if spec.highlight.contains(&i) {
+                half_t * HIGHLIGHT
+            } else {
+                half_t
+            };
             let req = Request {
                 x: x[i],
                 y: y[i],
-                half_thickness: half_t,
+                half_thickness: half,
                 side,
                 text: &runs,
                 size_pt: size,
@@ -641,8 +726,8 @@ fn build(spec: &DiagramSpec, style: &Style, legend_strip: f64) -> (Scene, Fit) {
             };
             let cands = place::candidates(&req);
             let origin = match side {
-                Side::Above => (x[i], y[i] - half_t),
-                Side::Below => (x[i], y[i] + half_t),
+                Side::Above => (x[i], y[i] - half),
+                Side::Below => (x[i], y[i] + half),
             };
             let bar = (x[i] - bar_w[i] / 2.0, x[i] + bar_w[i] / 2.0, y[i]);
             let _ = settle(
@@ -750,7 +835,7 @@ fn build(spec: &DiagramSpec, style: &Style, legend_strip: f64) -> (Scene, Fit) {
             items,
         },
         Fit {
-            texts: texts_fit,
+            left_out,
             legend: legend_ok,
         },
     )

@@ -6,11 +6,37 @@
 
 use super::scene::{Anchor, Rect, RichLine, Run};
 use super::{rich, text};
+use std::sync::OnceLock;
 
 /// Gap kept between any two texts, and between a text and a bar, in mm.
 pub const CLEARANCE: f64 = 0.3;
 /// Cost of covering one connector, in mm of displacement.
-const CROSSING_COST: f64 = 4.0;
+const CROSSING_COST: f64 = 5.0;
+/// How far (mm) a value or label may sit from its bar's line and still read
+/// as attached to it without a leader line.
+pub const ATTACH_MM: f64 = 2.0;
+
+/// True when a text box `r` reads as belonging to the bar `(x0, x1, y)`:
+/// it overlaps the bar horizontally and its near edge is within
+/// [`ATTACH_MM`] of the bar's line, not counting the bar's own other texts
+/// (`own`) stacked in between (a label over its value reads as one block).
+pub fn attached(r: &Rect, bar: (f64, f64, f64), own: &[Rect]) -> bool {
+    let (x0, x1, y) = bar;
+    let overlaps = |a: &Rect| a.x1 > x0 && a.x0 < x1;
+    let above = r.y1 <= y;
+    let mut gap = if above { y - r.y1 } else { r.y0 - y }.max(0.0);
+    for o in own.iter().filter(|o| overlaps(o)) {
+        let between = if above {
+            o.y0 >= r.y1 - 1e-9 && o.y1 <= y + 1e-9
+        } else {
+            o.y1 <= r.y0 + 1e-9 && o.y0 >= y - 1e-9
+        };
+        if between {
+            gap -= o.y1 - o.y0 + CLEARANCE;
+        }
+    }
+    overlaps(r) && gap <= ATTACH_MM
+}
 
 /// A possible position for a text block.
 #[derive(Debug, Clone, PartialEq)]
@@ -59,34 +85,37 @@ impl Placer {
                 .all(|b| !b.intersects(&r.inflate(CLEARANCE)))
     }
 
-    /// How many soft segments cross `r`.
+    /// How many soft segments cross `r`. The box's edges are glyph side
+    /// bearings and line spacing: a connector that only clips them does not
+    /// touch the ink.
     pub fn crossings(&self, r: &Rect) -> usize {
+        let ink = r.inflate(-0.25);
         self.segments
             .iter()
-            .filter(|(a, b)| segment_hits_rect(*a, *b, r))
+            .filter(|(a, b)| segment_hits_rect(*a, *b, &ink))
             .count()
     }
 
-    /// The best fitting candidate: lowest preference cost + crossing penalty; `candidates` must be sorted by cost.
+    /// The best fitting candidate: lowest preference cost + crossing
+    /// penalty; `candidates` must be sorted by cost.
     ///
-    /// `origin` is where a leader line would start (the bar); a candidate
-    /// whose leader would cut through a placed text or bar is rejected.
-    pub fn choose<'a>(
+    /// `origin` is where a leader line would start (the bar), anywhere
+    /// within `reach` of it horizontally (along the bar); a candidate whose
+    /// leader would cut through a placed text or bar is rejected.
+    pub fn choose_from(
         &self,
-        candidates: &'a [Candidate],
+        candidates: &[Candidate],
         origin: (f64, f64),
-    ) -> Option<&'a Candidate> {
-        let mut best: Option<(f64, &Candidate)> = None;
-        for c in candidates {
-            if best.is_some_and(|(cost, _)| c.cost >= cost) {
-                break; // sorted by cost: nothing later can beat it
-            }
+        reach: f64,
+    ) -> Option<Candidate> {
+        let mut best: Option<(f64, Candidate)> = None;
+        let consider = |c: &Candidate, best: &mut Option<(f64, Candidate)>| {
             let r = c.bbox();
             if !self.fits(&r) {
-                continue;
+                return;
             }
             if c.leader {
-                let to = r.nearest(origin.0, origin.1);
+                let (origin, to) = leader(origin, reach, &r);
                 let cuts = self.blocked.iter().any(|b| {
                     !b.inflate(0.05).contains(&Rect {
                         x0: origin.0,
@@ -96,26 +125,74 @@ impl Placer {
                     }) && segment_hits_rect(origin, to, b)
                 });
                 if cuts {
-                    continue;
+                    return;
                 }
             }
             let cost = c.cost + CROSSING_COST * self.crossings(&r) as f64;
-            if best.is_none_or(|(b, _)| cost < b) {
-                best = Some((cost, c));
+            if best.as_ref().is_none_or(|(b, _)| cost < *b) {
+                *best = Some((cost, c.clone()));
             }
+        };
+        for c in candidates {
+            if best.as_ref().is_some_and(|(cost, _)| c.cost >= *cost) {
+                break; // sorted by cost: nothing later can beat it
+            }
+            consider(c, &mut best);
+        }
+        // The search ring around the origin (far away, with a leader), built
+        // one spot at a time and only while it can still win: most texts
+        // never get here.
+        let Some(first) = candidates.first() else {
+            return None;
+        };
+        let size = candidates
+            .iter()
+            .map(|c| c.size_pt)
+            .fold(first.size_pt, f64::min);
+        // At the smallest size, the narrowest setting (most lines).
+        let narrowest = candidates
+            .iter()
+            .filter(|c| c.size_pt == size)
+            .max_by_key(|c| c.lines.len())
+            .unwrap_or(first);
+        let extra = (first.size_pt - size).max(0.0) * PER_PT_SMALLER;
+        let em = size * text::PT_MM;
+        for &(dx, dy, d) in ring_offsets() {
+            let cost = d + extra;
+            if best.as_ref().is_some_and(|(b, _)| cost >= *b) {
+                break;
+            }
+            let c = Candidate {
+                x: origin.0 + dx,
+                y: origin.1 + dy + (text::ASCENT - text::DESCENT) * em / 2.0,
+                lines: narrowest.lines.clone(),
+                size_pt: size,
+                anchor: Anchor::Middle,
+                leader: true,
+                cost,
+            };
+            consider(&c, &mut best);
         }
         best.map(|(_, c)| c)
     }
 
     #[cfg(test)]
-    fn choose_at<'a>(&self, candidates: &'a [Candidate]) -> Option<&'a Candidate> {
-        self.choose(candidates, (40.0, 30.0))
+    fn choose_at(&self, candidates: &[Candidate]) -> Option<Candidate> {
+        self.choose_from(candidates, (40.0, 30.0), 0.0)
     }
 
     /// Marks `r` as taken.
     pub fn block(&mut self, r: Rect) {
         self.blocked.push(r);
     }
+}
+
+/// The leader from a bar at `origin` (± `reach` along it) to the box `r`:
+/// from the bar point below or above the box's nearest edge, to the box.
+pub fn leader(origin: (f64, f64), reach: f64, r: &Rect) -> ((f64, f64), (f64, f64)) {
+    let centre = (r.x0 + r.x1) / 2.0;
+    let from = (centre.clamp(origin.0 - reach, origin.0 + reach), origin.1);
+    (from, r.nearest(from.0, from.1))
 }
 
 /// True when the segment a–b passes through the interior of `r`
@@ -178,20 +255,31 @@ pub struct Request<'a> {
 
 /// Preference costs, in "mm of displacement" so they add up with distance.
 const OTHER_SIDE: f64 = 2.0;
-const STACK_LEVEL: f64 = 1.5;
+/// Above its own other text; dearer than the other side of the bar.
+const STACK_LEVEL: f64 = 3.0;
 const EXTRA_LINE: f64 = 2.0;
-const PER_PT_SMALLER: f64 = 3.0;
+/// Shrinking one text alone makes it look out of place: dearer than moving
+/// it, so the whole figure shrinks instead (see `layout`) unless only a
+/// smaller size fits.
+const PER_PT_SMALLER: f64 = 6.0;
 const FAR_AWAY: f64 = 8.0;
-/// How far (mm) a text may be moved from its bar, with a leader line.
-const RING_RADIUS: f64 = 18.0;
+/// How far (mm) a text may be moved from its bar, with a leader line;
+/// farther, it no longer reads as belonging to its bar.
+const RING_RADIUS: f64 = 12.0;
+/// The last resort before a text is left out: anywhere this near, at a
+/// cost that puts it after every nearer spot.
+const LAST_RESORT_RADIUS: f64 = 32.0;
 
 /// Candidates for `req`, best first. Each gets a preference cost: distance
 /// moved from the default spot, plus fixed costs for switching side,
-/// stacking past the other text, breaking lines and shrinking; finally a
-/// search ring around the bar (far away, with a leader line).
+/// stacking past the other text, breaking lines and shrinking. The search
+/// ring around the bar (far away, with a leader line) is added lazily by
+/// [`Placer::choose_from`].
 pub fn candidates(req: &Request<'_>) -> Vec<Candidate> {
     let mut sizes = vec![req.size_pt];
-    for f in [0.9, 0.8, 0.7] {
+    // One step only: a text much smaller than its neighbours looks out of
+    // place; the whole figure shrinks instead (see `layout`).
+    for f in [0.9] {
         let s = (req.size_pt * f * 10.0).round() / 10.0;
         if s >= req.min_pt - 1e-9 && s < *sizes.last().unwrap() {
             sizes.push(s);
@@ -246,17 +334,6 @@ pub fn candidates(req: &Request<'_>) -> Vec<Candidate> {
             }
         }
     }
-    // Wider search: rings of growing radius at the smallest size and
-    // narrowest breaking, with a leader line.
-    let size = *sizes.last().unwrap();
-    let lines = breaks_of(req, size).pop().unwrap_or_default();
-    out.extend(ring(
-        req.x,
-        req.y,
-        &lines,
-        size,
-        (req.size_pt - size) * PER_PT_SMALLER,
-    ));
     // Stable sort: equal costs keep generation order, so output is deterministic.
     out.sort_by(|a, b| a.0.total_cmp(&b.0));
     out.into_iter()
@@ -264,40 +341,39 @@ pub fn candidates(req: &Request<'_>) -> Vec<Candidate> {
         .collect()
 }
 
-/// Far-away positions around `(x, y)` (text centred on each), for a text
-/// that needs a leader line: a grid within [`RING_RADIUS`], nearest first.
-fn ring(x: f64, y: f64, lines: &[RichLine], size: f64, extra: f64) -> Vec<(f64, Candidate)> {
-    let em = size * text::PT_MM;
-    let step = 0.8;
-    let reach = (RING_RADIUS / step).ceil() as i32;
-    let mut out = Vec::new();
-    for iy in -reach..=reach {
-        for ix in -reach..=reach {
-            let (dx, dy) = (ix as f64 * step, iy as f64 * step);
-            let d = (dx * dx + dy * dy).sqrt();
-            if !(2.0..=RING_RADIUS).contains(&d) {
-                continue;
+/// Offsets of the search ring for a text that needs a leader line, with
+/// their cost, cheapest first: a fine grid within [`RING_RADIUS`], then a
+/// coarser one out to [`LAST_RESORT_RADIUS`] after every nearer spot.
+fn ring_offsets() -> &'static [(f64, f64, f64)] {
+    static OFFSETS: OnceLock<Vec<(f64, f64, f64)>> = OnceLock::new();
+    OFFSETS.get_or_init(|| {
+        let mut out = Vec::new();
+        for (lo, hi, step, tier) in [
+            (2.0, RING_RADIUS, 0.8, 0.0),
+            (RING_RADIUS, LAST_RESORT_RADIUS, 1.6, 2.0 * RING_RADIUS),
+        ] {
+            let reach = (hi / step).ceil() as i32;
+            for iy in -reach..=reach {
+                for ix in -reach..=reach {
+                    let (dx, dy) = (ix as f64 * step, iy as f64 * step);
+                    let d = (dx * dx + dy * dy).sqrt();
+                    let inside = if tier > 0.0 { d > lo } else { d >= lo };
+                    if inside && d <= hi {
+                        out.push((dx, dy, FAR_AWAY + tier + d));
+                    }
+                }
             }
-            out.push((
-                FAR_AWAY + d + extra,
-                Candidate {
-                    x: x + dx,
-                    y: y + dy + (text::ASCENT - text::DESCENT) * em / 2.0,
-                    lines: lines.to_vec(),
-                    size_pt: size,
-                    anchor: Anchor::Middle,
-                    leader: true,
-                    cost: 0.0,
-                },
-            ));
         }
-    }
-    out
+        // Stable sort: equal costs keep generation order (deterministic).
+        out.sort_by(|a, b| a.2.total_cmp(&b.2));
+        out
+    })
 }
 
 /// Candidates for a text block beside a vertical mark (an arrow or bracket)
 /// from `y_top` to `y_bottom` at `x`: right of it first, then left, centred
-/// on the mark's middle and sliding along it; then far away with a leader.
+/// on the mark's middle and sliding along it ([`Placer::choose_from`] adds
+/// the far-away ring).
 pub fn beside(x: f64, y_top: f64, y_bottom: f64, lines: &[RichLine], size: f64) -> Vec<Candidate> {
     let em = size * text::PT_MM;
     let n = lines.len().max(1) as f64;
@@ -324,7 +400,6 @@ pub fn beside(x: f64, y_top: f64, y_bottom: f64, lines: &[RichLine], size: f64) 
             ));
         }
     }
-    out.extend(ring(x, (y_top + y_bottom) / 2.0, lines, size, 0.0));
     out.sort_by(|a, b| a.0.total_cmp(&b.0));
     out.into_iter()
         .map(|(cost, c)| Candidate { cost, ..c })
@@ -376,7 +451,7 @@ mod tests {
         let p = placer();
         let c = candidates(&req("radical pair", Side::Below));
         let chosen = p.choose_at(&c).unwrap();
-        assert_eq!(chosen, &c[0]);
+        assert_eq!(chosen, c[0]);
         assert!(chosen.bbox().y0 > 30.35);
         let c = candidates(&req("+14.2", Side::Above));
         assert!(p.choose_at(&c).unwrap().bbox().y1 < 29.65);
