@@ -11,6 +11,7 @@ use proptest::prelude::*;
 /// `q[i][j]` (i → j), by the Grassmann–Taksar–Heyman state reduction (Oper. Res.
 /// 1985, 33, 1107): no subtractions, so rates spanning forty decades keep full
 /// relative accuracy (a plain linear solve loses digits here).
+#[allow(clippy::needless_range_loop)] // indices as in the published algorithm
 fn stationary(mut q: Vec<Vec<f64>>) -> Vec<f64> {
     let n = q.len();
     for k in (1..n).rev() {

@@ -150,9 +150,19 @@ pub fn selectivity(model: &Model, start: Option<&[PointId]>) -> Option<Selectivi
     let bottleneck = |from: PointId| -> Vec<f64> {
         use std::cmp::Reverse;
         use std::collections::BinaryHeap;
-        #[derive(PartialEq, PartialOrd)]
+        // Energies are finite, so the total order is the numeric one.
         struct Key(f64);
+        impl PartialEq for Key {
+            fn eq(&self, other: &Self) -> bool {
+                self.cmp(other).is_eq()
+            }
+        }
         impl Eq for Key {}
+        impl PartialOrd for Key {
+            fn partial_cmp(&self, other: &Self) -> Option<std::cmp::Ordering> {
+                Some(self.cmp(other))
+            }
+        }
         impl Ord for Key {
             fn cmp(&self, other: &Self) -> std::cmp::Ordering {
                 self.0.total_cmp(&other.0)
