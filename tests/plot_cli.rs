@@ -145,3 +145,26 @@ fn an_unwritable_plot_exits_3_and_leaves_no_file() {
     assert_eq!(out.status.code(), Some(3), "{out:?}");
     assert_eq!(std::fs::read_dir(dir.path()).unwrap().count(), 0);
 }
+
+#[test]
+fn simulate_plot_draws_a_consumed_coreactant_unless_in_large_excess() {
+    let dir = tempfile::tempdir().unwrap();
+    // A + W → P with W at `c` mol/L against 1 mol/L of A (invented energies).
+    let profile = |c: f64| {
+        format!(
+            "unit = \"kcal/mol\"\n[coreactants]\nWATERX = {c}\n\
+             [states]\nA = {{ g = 0.0, with = [\"WATERX\"] }}\nP = {{ g = -15.0, product = true }}\n\
+             [ts]\nts = 19.0\n[[path]]\nname = \"main\"\nvia = [\"A\", \"ts\", \"P\"]\n"
+        )
+    };
+    for (c, drawn) in [(1.0, true), (50.0, false)] {
+        let file = common::write(dir.path(), "aw.toml", &profile(c));
+        let out = eyrie(
+            &["simulate", file.to_str().unwrap(), "--plot", "aw.svg"],
+            dir.path(),
+        );
+        assert_eq!(out.status.code(), Some(0), "{out:?}");
+        let svg = std::fs::read_to_string(dir.path().join("aw.svg")).unwrap();
+        assert_eq!(svg.contains("WATERX"), drawn, "W at {c} mol/L");
+    }
+}

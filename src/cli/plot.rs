@@ -111,13 +111,19 @@ fn time_unit(t_end: f64) -> (&'static str, f64) {
         .unwrap_or(TIME_UNITS[3])
 }
 
+/// A co-reactant starting above this multiple of the states' material is
+/// left out of the concentration chart.
+const EXCESS: f64 = 10.0;
+
 /// Concentration (mol/L) against time of every state that ever exceeds
 /// [`SHOWN_FRACTION`] of the total, from the simulation's samples. On a log
 /// time axis (seconds) the course starts one decade before anything has
 /// changed by that fraction: the integrator's first steps (1e-12 s and less)
 /// would otherwise spread a flat line over most of the width.
 pub fn concentrations(model: &Model, sim: &Simulation, log_time: bool) -> ChartSpec {
-    let total: f64 = sim.samples.first().map_or(0.0, |s| s.x.iter().sum());
+    let n = sim.network.species.len();
+    // The states' material; a co-reactant in excess would swamp it.
+    let total: f64 = sim.samples.first().map_or(0.0, |s| s.x[..n].iter().sum());
     let t_start = if log_time {
         log_start(&sim.samples, SHOWN_FRACTION * total)
     } else {
@@ -128,7 +134,14 @@ pub fn concentrations(model: &Model, sim: &Simulation, log_time: bool) -> ChartS
     } else {
         time_unit(sim.time_s())
     };
-    let series = sim
+    let course = |i: usize| -> Vec<(f64, f64)> {
+        sim.samples
+            .iter()
+            .filter(|p| !log_time || (p.t > 0.0 && p.t >= t_start))
+            .map(|p| (p.t / factor, p.x[i]))
+            .collect()
+    };
+    let states = sim
         .network
         .species
         .iter()
@@ -145,15 +158,29 @@ pub fn concentrations(model: &Model, sim: &Simulation, log_time: bool) -> ChartS
                 } else {
                     label.clone()
                 },
-                points: sim
-                    .samples
-                    .iter()
-                    .filter(|p| !log_time || (p.t > 0.0 && p.t >= t_start))
-                    .map(|p| (p.t / factor, p.x[i]))
-                    .collect(),
+                points: course(i),
             }
+        });
+    // A consumed co-reactant is drawn unless it starts in large excess
+    // (more than EXCESS times the states' material), where it stays flat
+    // and would only compress the other lines.
+    let coreactants = sim
+        .network
+        .coreactants
+        .iter()
+        .enumerate()
+        .filter(|(w, _)| {
+            let start = sim
+                .samples
+                .first()
+                .map_or(0.0, |s| s.x[sim.network.free(*w)]);
+            start <= EXCESS * total
         })
-        .collect();
+        .map(|(w, c)| Series {
+            name: c.name.clone(),
+            points: course(sim.network.free(w)),
+        });
+    let series = states.chain(coreactants).collect();
     ChartSpec {
         title: model.title().map(str::to_string),
         x_title: format!("time ({unit})"),
