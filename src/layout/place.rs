@@ -108,14 +108,13 @@ impl Placer {
         origin: (f64, f64),
         reach: f64,
     ) -> Option<Candidate> {
-        let mut best: Option<(f64, Candidate)> = None;
-        let consider = |c: &Candidate, best: &mut Option<(f64, Candidate)>| {
-            let r = c.bbox();
-            if !self.fits(&r) {
-                return;
+        // Total cost of a text at box `r`, or `None` where it may not go.
+        let cost_at = |r: &Rect, needs_leader: bool, cost: f64| -> Option<f64> {
+            if !self.fits(r) {
+                return None;
             }
-            if c.leader {
-                let (origin, to) = leader(origin, reach, &r);
+            if needs_leader {
+                let (origin, to) = leader(origin, reach, r);
                 let cuts = self.blocked.iter().any(|b| {
                     !b.inflate(0.05).contains(&Rect {
                         x0: origin.0,
@@ -125,26 +124,40 @@ impl Placer {
                     }) && segment_hits_rect(origin, to, b)
                 });
                 if cuts {
-                    return;
+                    return None;
                 }
             }
-            let cost = c.cost + CROSSING_COST * self.crossings(&r) as f64;
-            if best.as_ref().is_none_or(|(b, _)| cost < *b) {
-                *best = Some((cost, c.clone()));
-            }
+            Some(cost + CROSSING_COST * self.crossings(r) as f64)
         };
+        // Measuring text is the slow part: candidates differ mostly by
+        // position, so each setting is measured once and shifted.
+        let mut shapes: Vec<(&Candidate, Rect)> = Vec::new();
+        let mut best: Option<(f64, Candidate)> = None;
         for c in candidates {
             if best.as_ref().is_some_and(|(cost, _)| c.cost >= *cost) {
                 break; // sorted by cost: nothing later can beat it
             }
-            consider(c, &mut best);
+            let same = |s: &&Candidate| {
+                s.size_pt == c.size_pt && s.anchor == c.anchor && s.lines == c.lines
+            };
+            let r = match shapes.iter().find(|(s, _)| same(s)) {
+                Some((s, r)) => shifted(r, c.x - s.x, c.y - s.y),
+                None => {
+                    let r = c.bbox();
+                    shapes.push((c, r));
+                    r
+                }
+            };
+            if let Some(total) = cost_at(&r, c.leader, c.cost)
+                && best.as_ref().is_none_or(|(b, _)| total < *b)
+            {
+                best = Some((total, c.clone()));
+            }
         }
-        // The search ring around the origin (far away, with a leader), built
+        // The search ring around the origin (far away, with a leader), tried
         // one spot at a time and only while it can still win: most texts
         // never get here.
-        let Some(first) = candidates.first() else {
-            return None;
-        };
+        let first = candidates.first()?;
         let size = candidates
             .iter()
             .map(|c| c.size_pt)
@@ -157,21 +170,28 @@ impl Placer {
             .unwrap_or(first);
         let extra = (first.size_pt - size).max(0.0) * PER_PT_SMALLER;
         let em = size * text::PT_MM;
+        let dy0 = (text::ASCENT - text::DESCENT) * em / 2.0;
+        let shape = rich::block_box(0.0, 0.0, &narrowest.lines, size, Anchor::Middle, 0.0);
         for &(dx, dy, d) in ring_offsets() {
             let cost = d + extra;
             if best.as_ref().is_some_and(|(b, _)| cost >= *b) {
                 break;
             }
-            let c = Candidate {
-                x: origin.0 + dx,
-                y: origin.1 + dy + (text::ASCENT - text::DESCENT) * em / 2.0,
-                lines: narrowest.lines.clone(),
-                size_pt: size,
-                anchor: Anchor::Middle,
-                leader: true,
-                cost,
-            };
-            consider(&c, &mut best);
+            let (x, y) = (origin.0 + dx, origin.1 + dy + dy0);
+            if let Some(total) = cost_at(&shifted(&shape, x, y), true, cost)
+                && best.as_ref().is_none_or(|(b, _)| total < *b)
+            {
+                let c = Candidate {
+                    x,
+                    y,
+                    lines: narrowest.lines.clone(),
+                    size_pt: size,
+                    anchor: Anchor::Middle,
+                    leader: true,
+                    cost,
+                };
+                best = Some((total, c));
+            }
         }
         best.map(|(_, c)| c)
     }
@@ -184,6 +204,16 @@ impl Placer {
     /// Marks `r` as taken.
     pub fn block(&mut self, r: Rect) {
         self.blocked.push(r);
+    }
+}
+
+/// `r` moved by `(dx, dy)`.
+fn shifted(r: &Rect, dx: f64, dy: f64) -> Rect {
+    Rect {
+        x0: r.x0 + dx,
+        y0: r.y0 + dy,
+        x1: r.x1 + dx,
+        y1: r.y1 + dy,
     }
 }
 

@@ -1,0 +1,61 @@
+#!/usr/bin/env bash
+# Renderer speed: `eyrie render` of the demo to SVG, PDF and PNG at 600 dpi
+# against a hand-written matplotlib script drawing the same figure
+# (benches/render_matplotlib.py, same 85 × 65 mm page and dpi), as whole
+# processes in one hyperfine run with a baseline (`cat` of the profile: the
+# cost of starting a process and reading the file). Prints mean times, the
+# ratio matplotlib / eyrie per format (targets: ≥ 100× for SVG and PDF, ≥ 50×
+# for PNG at 600 dpi), peak RSS of each from /usr/bin/time -v, and the
+# in-process time per stage (examples/stage_times.rs).
+#
+# Needs hyperfine (Debian package) and matplotlib in a venv; CI does not run it.
+#
+#   python3 -m venv /work/wip/venv-mpl && /work/wip/venv-mpl/bin/pip install matplotlib
+#   MPL_PYTHON=/work/wip/venv-mpl/bin/python benches/render.sh
+set -euo pipefail
+cd "$(dirname "$0")/.."
+py="${MPL_PYTHON:-/work/wip/venv-mpl/bin/python}"
+"$py" -c 'import matplotlib' 2>/dev/null || {
+  echo "matplotlib not found for $py; set MPL_PYTHON to a python with matplotlib" >&2
+  exit 2
+}
+cargo build --release --quiet --example stage_times
+bin="${CARGO_TARGET_DIR:-target}/release/eyrie"
+stages="${CARGO_TARGET_DIR:-target}/release/examples/stage_times"
+demo=profiles/demo.toml
+mpl=benches/render_matplotlib.py
+out=$(mktemp -d)
+trap 'rm -rf "$out"' EXIT
+# One matplotlib run first, so its font cache exists before timing.
+"$py" "$mpl" "$demo" "$out/warm.svg" >/dev/null
+
+hyperfine --warmup 2 --min-runs 10 -N \
+  --export-json "$out/times.json" --export-markdown "$out/times.md" \
+  -n baseline "cat $demo" \
+  -n eyrie-svg "$bin render $demo -o $out/e.svg" \
+  -n eyrie-pdf "$bin render $demo -o $out/e.pdf" \
+  -n eyrie-png600 "$bin render $demo -o $out/e.png --dpi 600" \
+  -n mpl-svg "$py $mpl $demo $out/m.svg" \
+  -n mpl-pdf "$py $mpl $demo $out/m.pdf" \
+  -n mpl-png600 "$py $mpl $demo $out/m.png --dpi 600"
+cat "$out/times.md"
+echo
+python3 - "$out/times.json" <<'EOF'
+import json, sys
+r = {x["command"]: x["mean"] for x in json.load(open(sys.argv[1]))["results"]}
+print(f"baseline (cat): {r['baseline'] * 1e3:.2f} ms")
+for fmt, target in (("svg", 100), ("pdf", 100), ("png600", 50)):
+    e, m = r[f"eyrie-{fmt}"], r[f"mpl-{fmt}"]
+    verdict = "meets" if m / e >= target else "MISSES"
+    print(f"{fmt:>7}: eyrie {e * 1e3:8.2f} ms, matplotlib {m * 1e3:8.1f} ms, "
+          f"ratio {m / e:6.0f}x ({verdict} the {target}x target)")
+EOF
+echo
+rss() { /usr/bin/time -v "$@" 2>&1 >/dev/null | awk -F: '/Maximum resident/ {gsub(/ /,"",$2); print $2}'; }
+for ext in svg pdf png; do
+  e=$(rss "$bin" render "$demo" -o "$out/e.$ext" --dpi 600)
+  m=$(rss "$py" "$mpl" "$demo" "$out/m.$ext" --dpi 600)
+  echo "peak RSS $ext: eyrie ${e} kB, matplotlib ${m} kB"
+done
+echo
+"$stages" "$demo" 600 200

@@ -1,0 +1,135 @@
+//! Time per stage of drawing one figure, in process (no start-up, no file
+//! writes): parse, analyze, figure spec, layout, SVG, and for PNG the SVG
+//! read back into a tree, the raster and the encoding; PDF as one stage.
+//! The benchmark `benches/render.sh` runs it; whole-process times are there.
+//!
+//!     cargo run --release --example stage_times -- profiles/demo.toml 600 200
+//!
+//! Arguments: profile (default profiles/demo.toml), PNG dpi (600), iterations
+//! (200). Prints the median µs per stage. The first font load (a one-time
+//! cost per process) is printed on its own.
+
+use eyrie::figure::{FigureOptions, diagram_spec};
+use resvg::{tiny_skia, usvg};
+use std::hint::black_box;
+use std::sync::Arc;
+use std::time::Instant;
+
+/// Median of `runs` timings of `f`, µs.
+fn median_us<T>(runs: usize, mut f: impl FnMut() -> T) -> f64 {
+    let mut t: Vec<f64> = (0..runs)
+        .map(|_| {
+            let start = Instant::now();
+            black_box(f());
+            start.elapsed().as_secs_f64() * 1e6
+        })
+        .collect();
+    t.sort_by(f64::total_cmp);
+    t[t.len() / 2]
+}
+
+/// The bundled faces only, as the renderer loads them.
+fn fonts() -> Arc<usvg::fontdb::Database> {
+    let mut db = usvg::fontdb::Database::new();
+    db.load_font_data(eyrie::font::REGULAR.to_vec());
+    db.load_font_data(eyrie::font::ITALIC.to_vec());
+    db.set_sans_serif_family(eyrie::font::FAMILY);
+    Arc::new(db)
+}
+
+fn main() {
+    let mut args = std::env::args().skip(1);
+    let path = args.next().unwrap_or_else(|| "profiles/demo.toml".into());
+    let dpi: f64 = args.next().and_then(|a| a.parse().ok()).unwrap_or(600.0);
+    let runs: usize = args
+        .next()
+        .and_then(|a| a.parse().ok())
+        .unwrap_or(200)
+        .max(1);
+    let text = std::fs::read_to_string(&path).unwrap_or_else(|e| {
+        eprintln!("cannot read {path}: {e}");
+        std::process::exit(2)
+    });
+    let Ok(parsed) = eyrie::profile::parse(&text) else {
+        eprintln!("{path} does not parse; run `eyrie analyze {path}` for the errors");
+        std::process::exit(2)
+    };
+    let model = parsed.model;
+    let options = FigureOptions::default();
+    let style = options.style().expect("the default preset exists");
+    let spec = diagram_spec(&model, &options);
+    let scene = eyrie::layout::layout(&spec, &style);
+    let svg = eyrie::render::to_svg(&scene);
+
+    let start = Instant::now();
+    let db = fonts();
+    let font_load = start.elapsed().as_secs_f64() * 1e6;
+    let usvg_options = usvg::Options {
+        font_family: eyrie::font::FAMILY.to_string(),
+        fontdb: db,
+        ..usvg::Options::default()
+    };
+    let tree = usvg::Tree::from_str(&svg, &usvg_options).expect("eyrie's SVG reads back");
+    let (w, h) = eyrie::render::pixel_size(scene.width_mm, scene.height_mm, dpi);
+    let raster = || {
+        let mut pixmap = tiny_skia::Pixmap::new(w as u32, h as u32).expect("a drawable size");
+        let size = tree.size();
+        let transform =
+            tiny_skia::Transform::from_scale(w as f32 / size.width(), h as f32 / size.height());
+        resvg::render(&tree, transform, &mut pixmap.as_mut());
+        pixmap
+    };
+    // Warm the renderer's own font database once, as a process would.
+    let _ = eyrie::render::to_png(&scene, 10.0);
+
+    let rows = [
+        (
+            "parse",
+            median_us(runs, || eyrie::profile::parse(&text).is_ok()),
+        ),
+        (
+            "analyze",
+            median_us(runs, || eyrie::kinetics::analyze(&model)),
+        ),
+        (
+            "figure spec",
+            median_us(runs, || diagram_spec(&model, &options)),
+        ),
+        (
+            "layout",
+            median_us(runs, || eyrie::layout::layout(&spec, &style)),
+        ),
+        ("SVG", median_us(runs, || eyrie::render::to_svg(&scene))),
+        (
+            "SVG → tree (usvg)",
+            median_us(runs, || usvg::Tree::from_str(&svg, &usvg_options).is_ok()),
+        ),
+        ("raster", median_us(runs.min(50), raster)),
+        (
+            "PNG total (tree + raster + encode)",
+            median_us(runs.min(50), || eyrie::render::to_png(&scene, dpi).is_ok()),
+        ),
+        (
+            "PDF total",
+            median_us(runs, || eyrie::render::to_pdf(&scene).is_ok()),
+        ),
+    ];
+    println!(
+        "{path}: median of {runs} runs (raster and PNG: {}), {dpi} dpi = {w} × {h} px",
+        runs.min(50)
+    );
+    println!(
+        "{:<36} {:>10.0} µs (once per process)",
+        "font database", font_load
+    );
+    for (name, us) in &rows {
+        println!("{name:<36} {us:>10.0} µs");
+    }
+    let get = |n: &str| rows.iter().find(|(k, _)| *k == n).map_or(0.0, |r| r.1);
+    let encode =
+        get("PNG total (tree + raster + encode)") - get("SVG → tree (usvg)") - get("raster");
+    println!(
+        "{:<36} {:>10.0} µs (PNG total − tree − raster)",
+        "encode (PNG)", encode
+    );
+}
