@@ -6,15 +6,21 @@
 //! in seconds) would abort there, so it is set to 1e-30 s.
 //!
 //! Small systems use a dense Jacobian and dense LU (nalgebra); from
-//! [`SPARSE_FROM`] states on, a sparse Jacobian (its pattern found by diffsol
-//! from NaN probes of [`Network::jac_mul`], filled by column colouring) and
-//! faer's sparse LU, whose cost grows with the number of reactions rather
-//! than with the cube of the number of states.
+//! [`SPARSE_FROM`] states on, a sparse Jacobian and faer's sparse LU, whose
+//! cost grows with the number of reactions rather than with the cube of the
+//! number of states. The network is handed to diffsol as its own equations
+//! ([`Equations`]) rather than through the closure builder: the builder finds
+//! a sparse pattern by probing every column at once (N² numbers, most of the
+//! memory of a 1000-state run), while the pattern is known from the reactions
+//! ([`Network::jacobian_pattern`]); the values are filled by column colouring.
 
 use super::SimulateError;
 use super::network::Network;
+use diffsol::matrix::sparsity::MatrixSparsity;
 use diffsol::{
-    FaerSparseLU, FaerSparseMat, NalgebraLU, NalgebraMat, OdeBuilder, OdeSolverMethod, Vector,
+    ConstantOp, FaerSparseLU, FaerSparseMat, JacobianColoring, Matrix, NalgebraLU, NalgebraMat,
+    NonLinearOp, NonLinearOpJacobian, OdeBuilder, OdeEquations, OdeEquationsRef, OdeSolverMethod,
+    Op, ParameterisedOp, UnitCallable, Vector,
 };
 
 /// Size (ODE dimension) from which the sparse Jacobian and LU are used.
@@ -77,32 +83,23 @@ const MAX_STEPS: usize = 200_000;
 macro_rules! bdf {
     ($m:ty, $ls:ty, $net:expr, $x0:expr, $t_end:expr, $tol:expr, $observe:expr) => {{
         let (net, x0, t_end, tol, observe) = ($net, $x0, $t_end, $tol, $observe);
-        let n = net.dim();
         let total: f64 = x0
             .iter()
             .map(|v: &f64| v.abs())
             .sum::<f64>()
             .max(f64::MIN_POSITIVE);
         let atol = tol.atol_fraction * total;
-        let init = x0.to_vec();
         let fail = |t: f64, h: f64, e: &dyn std::fmt::Display| SimulateError::Integrator {
             time_s: t,
             step_s: h,
             message: e.to_string(),
         };
+        let equations = Equations::<$m>::new(net, x0).map_err(|e| fail(0.0, 0.0, &e))?;
         let mut problem = OdeBuilder::<$m>::new()
             .rtol(tol.rtol)
             .atol([atol])
             .h0(initial_step(net, x0, t_end))
-            .rhs_implicit(
-                |x: &[f64], _p: &[f64], _t: f64, y: &mut [f64]| net.rhs(x, y),
-                |x: &[f64], _p: &[f64], _t: f64, v: &[f64], y: &mut [f64]| net.jac_mul(x, v, y),
-            )
-            .init(
-                move |_p: &[f64], _t: f64, y: &mut [f64]| y.copy_from_slice(&init),
-                n,
-            )
-            .build()
+            .build_from_eqn(equations)
             .map_err(|e| fail(0.0, 0.0, &e))?;
         problem.ode_options.min_timestep = 1e-30;
         problem.ode_options.max_number_timesteps = MAX_STEPS;
@@ -228,4 +225,131 @@ fn initial_step(net: &Network, x0: &[f64], t_end: f64) -> f64 {
         .fold(0.0_f64, f64::max);
     let h = if fastest > 0.0 { 0.1 / fastest } else { t_end };
     h.min(t_end * 1e-3).max(1e-30)
+}
+
+/// The network as diffsol equations: dx/dt = f(x) with the analytic Jacobian,
+/// no parameters and no mass matrix.
+struct Equations<'a, M: Matrix<T = f64>> {
+    net: &'a Network,
+    x0: &'a [f64],
+    /// The (empty) parameter vector diffsol asks for.
+    p: M::V,
+    /// Pattern and colouring of a sparse Jacobian; `None` for a dense one,
+    /// which is filled column by column.
+    sparsity: Option<M::Sparsity>,
+    coloring: Option<JacobianColoring<M>>,
+    ctx: M::C,
+}
+
+impl<'a, M: Matrix<T = f64>> Equations<'a, M> {
+    fn new(net: &'a Network, x0: &'a [f64]) -> Result<Self, diffsol::LaError> {
+        let ctx = M::C::default();
+        let n = net.dim();
+        let (sparsity, coloring) = if M::is_sparse() {
+            let pattern = net.jacobian_pattern();
+            let sparsity = M::Sparsity::try_from_indices(n, n, pattern.clone())?;
+            let coloring = JacobianColoring::new(&sparsity, &pattern, ctx.clone());
+            (Some(sparsity), Some(coloring))
+        } else {
+            (None, None)
+        };
+        Ok(Equations {
+            net,
+            x0,
+            p: M::V::zeros(0, ctx.clone()),
+            sparsity,
+            coloring,
+            ctx,
+        })
+    }
+}
+
+/// The right-hand side f(x) as diffsol's operator.
+struct Rhs<'b, 'a, M: Matrix<T = f64>>(&'b Equations<'a, M>);
+
+/// The initial state as diffsol's operator.
+struct Init<'b, 'a, M: Matrix<T = f64>>(&'b Equations<'a, M>);
+
+/// Sizes and context shared by the equations and their operators.
+macro_rules! op_of_network {
+    ($ty:ty, $eqn:ident => $get:expr) => {
+        impl<M: Matrix<T = f64>> Op for $ty {
+            type T = f64;
+            type V = M::V;
+            type M = M;
+            type C = M::C;
+            fn nstates(&self) -> usize {
+                let $eqn = self;
+                $get.net.dim()
+            }
+            fn nout(&self) -> usize {
+                let $eqn = self;
+                $get.net.dim()
+            }
+            fn nparams(&self) -> usize {
+                0
+            }
+            fn context(&self) -> &M::C {
+                let $eqn = self;
+                &$get.ctx
+            }
+        }
+    };
+}
+op_of_network!(Equations<'_, M>, e => e);
+op_of_network!(Rhs<'_, '_, M>, r => r.0);
+op_of_network!(Init<'_, '_, M>, i => i.0);
+
+impl<M: Matrix<T = f64>> NonLinearOp for Rhs<'_, '_, M> {
+    fn call_inplace(&self, x: &M::V, _t: f64, y: &mut M::V) {
+        y.for_each_batch_host([x], |y, [x], _| self.0.net.rhs(x, y));
+    }
+}
+
+impl<M: Matrix<T = f64>> NonLinearOpJacobian for Rhs<'_, '_, M> {
+    fn jac_mul_inplace(&self, x: &M::V, _t: f64, v: &M::V, y: &mut M::V) {
+        y.for_each_batch_host([x, v], |y, [x, v], _| self.0.net.jac_mul(x, v, y));
+    }
+    fn jacobian_inplace(&self, x: &M::V, t: f64, y: &mut M) {
+        match &self.0.coloring {
+            Some(coloring) => coloring.jacobian_inplace(self, x, t, y),
+            None => self._default_jacobian_inplace(x, t, y),
+        }
+    }
+    fn jacobian_sparsity(&self) -> Option<M::Sparsity> {
+        self.0.sparsity.clone()
+    }
+}
+
+impl<M: Matrix<T = f64>> ConstantOp for Init<'_, '_, M> {
+    fn call_inplace(&self, _t: f64, y: &mut M::V) {
+        y.for_each_batch_host([], |y, [], _| y.copy_from_slice(self.0.x0));
+    }
+}
+
+impl<'b, 'a, M: Matrix<T = f64>> OdeEquationsRef<'b> for Equations<'a, M> {
+    type Mass = ParameterisedOp<'b, UnitCallable<M>>;
+    type Rhs = Rhs<'b, 'a, M>;
+    type Root = ParameterisedOp<'b, UnitCallable<M>>;
+    type Init = Init<'b, 'a, M>;
+    type Out = ParameterisedOp<'b, UnitCallable<M>>;
+    type Reset = ParameterisedOp<'b, UnitCallable<M>>;
+}
+
+impl<'a, M: Matrix<T = f64>> OdeEquations for Equations<'a, M> {
+    fn rhs(&self) -> Rhs<'_, 'a, M> {
+        Rhs(self)
+    }
+    fn mass(&self) -> Option<ParameterisedOp<'_, UnitCallable<M>>> {
+        None
+    }
+    fn init(&self) -> Init<'_, 'a, M> {
+        Init(self)
+    }
+    fn set_params(&mut self, p: &M::V) {
+        self.p.copy_from(p);
+    }
+    fn get_params(&self, p: &mut M::V) {
+        p.copy_from(&self.p);
+    }
 }

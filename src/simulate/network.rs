@@ -309,6 +309,29 @@ impl Network {
         }
     }
 
+    /// Every entry of the Jacobian that can be non-zero, as (row, column),
+    /// sorted by column then row: each state a rate reads (its side's state
+    /// and co-reactants) against each state its flux changes. The same set a
+    /// NaN probe of [`Network::jac_mul`] finds, known without the probe.
+    pub fn jacobian_pattern(&self) -> Vec<(usize, usize)> {
+        let mut out = Vec::new();
+        for r in &self.reactions {
+            let coreactants = r.forward_with.iter().chain(&r.reverse_with);
+            let reads: Vec<usize> = [r.from, r.to]
+                .into_iter()
+                .chain(coreactants.map(|&w| self.free(w)))
+                .collect();
+            for &column in &reads {
+                for &row in reads.iter().chain(&r.counter) {
+                    out.push((row, column));
+                }
+            }
+        }
+        out.sort_unstable_by_key(|&(row, column)| (column, row));
+        out.dedup();
+        out
+    }
+
     /// The first-order network with every co-reactant held at its value in
     /// `x` (folded into the rate constants): what the catalyst states see
     /// at one moment, for the exact steady state of a cycle.
