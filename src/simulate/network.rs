@@ -263,11 +263,7 @@ impl Network {
     /// Adds the net flux `net` of reaction `r` to dx/dt in `y`: taken from
     /// one side, given to the other, co-reactants consumed and released.
     fn apply(&self, r: &Reaction, net: f64, y: &mut [f64]) {
-        y[r.from] -= net;
-        y[r.to] += net;
-        if let Some(c) = r.counter {
-            y[c] += net;
-        }
+        self.apply_first_order(r, net, y);
         for &w in &r.forward_with {
             y[self.free(w)] -= net;
         }
@@ -279,10 +275,26 @@ impl Network {
     /// dx/dt into `y`, as the net flux of each step moved from one state to
     /// the other.
     pub fn rhs(&self, x: &[f64], y: &mut [f64]) {
-        y.iter_mut().for_each(|v| *v = 0.0);
+        y.fill(0.0);
         for r in &self.reactions {
-            let (f, b) = self.rates(r, x);
-            self.apply(r, f - b, y);
+            if r.forward_with.is_empty() && r.reverse_with.is_empty() {
+                // The common first-order step, without the co-reactant
+                // loops (the same arithmetic as `rates` and `apply`).
+                self.apply_first_order(r, r.kf * x[r.from] - r.kr * x[r.to], y);
+            } else {
+                let (f, b) = self.rates(r, x);
+                self.apply(r, f - b, y);
+            }
+        }
+    }
+
+    /// [`Network::apply`] for a step without co-reactants.
+    #[inline]
+    fn apply_first_order(&self, r: &Reaction, net: f64, y: &mut [f64]) {
+        y[r.from] -= net;
+        y[r.to] += net;
+        if let Some(c) = r.counter {
+            y[c] += net;
         }
     }
 
@@ -302,10 +314,14 @@ impl Network {
             }
             d
         };
-        y.iter_mut().for_each(|v| *v = 0.0);
+        y.fill(0.0);
         for r in &self.reactions {
-            let net = along(r.kf, r.from, &r.forward_with) - along(r.kr, r.to, &r.reverse_with);
-            self.apply(r, net, y);
+            if r.forward_with.is_empty() && r.reverse_with.is_empty() {
+                self.apply_first_order(r, r.kf * v[r.from] - r.kr * v[r.to], y);
+            } else {
+                let net = along(r.kf, r.from, &r.forward_with) - along(r.kr, r.to, &r.reverse_with);
+                self.apply(r, net, y);
+            }
         }
     }
 
