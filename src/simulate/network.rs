@@ -551,3 +551,65 @@ fn path_reactions(model: &Model, via: &[PointId], analysis: &Analysis) -> Option
     }
     Some(out)
 }
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    /// Two species and a counter, one co-reactant consumed forward and one
+    /// released: every kind of entry the pattern has to cover.
+    fn network() -> Network {
+        let species = |point| Species {
+            point,
+            counter: point == 2,
+            product: false,
+            in_cycle: true,
+        };
+        let reaction = |from, to, forward_with, reverse_with, counter| Reaction {
+            from,
+            to,
+            ts: None,
+            kf: 2.0,
+            // A zero rate constant still makes an entry of the pattern.
+            kr: 0.0,
+            forward_with,
+            reverse_with,
+            counter,
+        };
+        let coreactant = |name: &str| Coreactant {
+            name: name.into(),
+            stated: 0.5,
+        };
+        Network {
+            species: (0..3).map(species).collect(),
+            coreactants: vec![coreactant("W"), coreactant("B")],
+            reactions: vec![
+                reaction(0, 1, vec![0], vec![], None),
+                reaction(1, 0, vec![], vec![1], Some(2)),
+            ],
+            cycles: vec![vec![0, 1]],
+        }
+    }
+
+    #[test]
+    fn jacobian_pattern_is_what_a_nan_probe_of_jac_mul_finds() {
+        // Source: closed form — the documented contract of `jac_mul`, which
+        // reads every entry a rate depends on, so a NaN in column j reaches
+        // exactly the rows of column j of the pattern.
+        let net = network();
+        let n = net.dim();
+        let x = vec![1.0; n];
+        let mut probed = Vec::new();
+        for j in 0..n {
+            let mut v = vec![0.0; n];
+            v[j] = f64::NAN;
+            let mut y = vec![0.0; n];
+            net.jac_mul(&x, &v, &mut y);
+            probed.extend((0..n).filter(|&i| y[i].is_nan()).map(|i| (i, j)));
+        }
+        assert_eq!(net.jacobian_pattern(), probed);
+        // The counter's row and the co-reactants' columns (W is state 3, B 4).
+        assert!(probed.contains(&(2, 1)) && probed.contains(&(2, 4)));
+        assert!(probed.contains(&(0, 3)) && probed.contains(&(1, 4)));
+    }
+}
