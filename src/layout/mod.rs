@@ -132,17 +132,14 @@ pub struct DiagramSpec {
 /// and an empty spec gives an empty axis.
 ///
 /// When some text finds no free spot at the style's sizes, the whole figure
-/// is laid out again with smaller type, down to [`SMALLEST_SHRINK`] of the
-/// preset's size (6 pt for the 7 pt article type) and never below
-/// `min_text_pt`, so a crowded figure shrinks uniformly. A text that still
+/// is laid out again with smaller type, step by step down to the preset's
+/// `min_text_pt` (6 pt after the first steps for the 7 pt article type,
+/// 5 pt at most), so a crowded figure shrinks uniformly. A text that still
 /// finds no free spot is left out rather than drawn over another; see
 /// [`layout_report`] for what was left out.
 pub fn layout(spec: &DiagramSpec, style: &Style) -> Scene {
     layout_report(spec, style).0
 }
-
-/// The smallest fraction of the preset's type the layout shrinks to.
-pub const SMALLEST_SHRINK: f64 = 6.0 / 7.0;
 
 /// What a page too small for its figure had to leave out.
 #[derive(Debug, Clone, PartialEq, Default)]
@@ -192,7 +189,7 @@ impl Crowding {
 pub fn layout_report(spec: &DiagramSpec, style: &Style) -> (Scene, Crowding) {
     let style = &style.with_hints(&spec.hints);
     let mut best: Option<(Scene, Crowding)> = None;
-    for scale in [1.0, 0.93, SMALLEST_SHRINK] {
+    for scale in [1.0, 0.93, 6.0 / 7.0, 0.79, 0.72] {
         let mut s = style.clone();
         for size in [&mut s.label_pt, &mut s.value_pt, &mut s.annotation_text_pt] {
             *size = (*size * scale).max(style.min_text_pt.min(*size));
