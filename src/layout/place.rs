@@ -309,11 +309,9 @@ pub fn candidates(req: &Request<'_>) -> Vec<Candidate> {
     let mut sizes = vec![req.size_pt];
     // One step only: a text much smaller than its neighbours looks out of
     // place; the whole figure shrinks instead (see `layout`).
-    for f in [0.9] {
-        let s = (req.size_pt * f * 10.0).round() / 10.0;
-        if s >= req.min_pt - 1e-9 && s < *sizes.last().unwrap() {
-            sizes.push(s);
-        }
+    let smaller = (req.size_pt * 0.9 * 10.0).round() / 10.0;
+    if smaller >= req.min_pt - 1e-9 && smaller < req.size_pt {
+        sizes.push(smaller);
     }
     let other = match req.side {
         Side::Above => Side::Below,
