@@ -10,11 +10,11 @@
 #
 # Needs hyperfine (Debian package) and matplotlib in a venv; CI does not run it.
 #
-#   python3 -m venv /work/wip/venv-mpl && /work/wip/venv-mpl/bin/pip install matplotlib
-#   MPL_PYTHON=/work/wip/venv-mpl/bin/python benches/render.sh
+#   python3 -m venv /tmp/venv-mpl && /tmp/venv-mpl/bin/pip install matplotlib
+#   MPL_PYTHON=/tmp/venv-mpl/bin/python benches/render.sh
 set -euo pipefail
 cd "$(dirname "$0")/.."
-py="${MPL_PYTHON:-/work/wip/venv-mpl/bin/python}"
+py="${MPL_PYTHON:-python3}"
 "$py" -c 'import matplotlib' 2>/dev/null || {
   echo "matplotlib not found for $py; set MPL_PYTHON to a python with matplotlib" >&2
   exit 2
