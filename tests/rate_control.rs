@@ -90,19 +90,8 @@ fn assert_sum_rule(rc: &RateControl) {
 #[test]
 fn reference_cycles_match_the_energetic_span_model() {
     // The worked cycles of tests/reference/energetic_span.toml (generate.py).
-    let text = std::fs::read_to_string(concat!(
-        env!("CARGO_MANIFEST_DIR"),
-        "/tests/reference/energetic_span.toml"
-    ))
-    .unwrap();
-    let doc: toml::Table = text.parse().unwrap();
-    let floats = |v: &toml::Value| -> Vec<f64> {
-        v.as_array()
-            .unwrap()
-            .iter()
-            .map(|x| x.as_float().unwrap())
-            .collect()
-    };
+    let doc = common::reference_table("energetic_span.toml");
+    let floats = common::floats;
     let cycles = doc["cycle"].as_array().unwrap();
     assert!(cycles.len() >= 4);
     for c in cycles {

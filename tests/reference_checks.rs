@@ -6,6 +6,8 @@
 //! Every entry of the files read here is either checked or named in a skip list
 //! with the reason, so a new entry cannot be silently ignored.
 
+mod common;
+
 use eyrie::kinetics::{barrier_for_half_life, barrier_for_rate, rate_constant};
 use eyrie::units::{self, EnergyUnit, Temperature};
 use std::collections::BTreeSet;
@@ -190,18 +192,8 @@ fn energetic_span_of_the_reference_cycles() {
     // tests/reference/energetic_span.toml, each TOF cross-checked there against the
     // linear mass-action steady state (numpy).
     use eyrie::kinetics::span::energetic_span;
-    let path = format!(
-        "{}/tests/reference/energetic_span.toml",
-        env!("CARGO_MANIFEST_DIR")
-    );
-    let doc: toml::Table = std::fs::read_to_string(path).unwrap().parse().unwrap();
-    let floats = |v: &toml::Value| -> Vec<f64> {
-        v.as_array()
-            .unwrap()
-            .iter()
-            .map(|x| x.as_float().unwrap())
-            .collect()
-    };
+    let doc = common::reference_table("energetic_span.toml");
+    let floats = common::floats;
     let strings = |v: &toml::Value| -> Vec<String> {
         v.as_array()
             .unwrap()

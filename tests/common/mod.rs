@@ -25,3 +25,19 @@ pub fn write(dir: &Path, name: &str, content: &str) -> PathBuf {
     std::fs::write(&p, content).unwrap();
     p
 }
+
+/// One of the check-value files in `tests/reference/` (written by
+/// `tests/reference/generate.py`), as a TOML table.
+pub fn reference_table(file: &str) -> toml::Table {
+    let path = repo(&format!("tests/reference/{file}"));
+    std::fs::read_to_string(path).unwrap().parse().unwrap()
+}
+
+/// A TOML array of numbers.
+pub fn floats(v: &toml::Value) -> Vec<f64> {
+    v.as_array()
+        .unwrap()
+        .iter()
+        .map(|x| x.as_float().unwrap())
+        .collect()
+}
