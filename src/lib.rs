@@ -23,6 +23,7 @@
 #![forbid(unsafe_code)]
 #![warn(missing_docs)]
 
+pub mod charts;
 pub mod convert;
 pub mod diag;
 pub mod export;

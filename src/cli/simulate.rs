@@ -84,7 +84,7 @@ pub fn run(args: &SimulateArgs) -> Result<(), CliError> {
     let sim =
         with_progress(|progress| simulate::simulate(&model, &options, progress)).map_err(usage)?;
     if let Some(target) = &plot {
-        target.write(&super::plot::concentrations(&model, &sim, args.log_time))?;
+        target.write(&eyrie::charts::concentrations(&model, &sim, args.log_time))?;
     }
     let controls = Controls::new(&model, &options, &sim, args.rate_control);
     let csv_to_stdout = args.csv.as_deref() == Some(Path::new("-"));

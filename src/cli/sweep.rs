@@ -5,7 +5,6 @@ use super::error::CliError;
 use super::files;
 use super::plot::PlotArgs;
 use eyrie::kinetics::sweep::{isoselective, sweep, temperatures};
-use eyrie::layout::{AxisScale, ChartSpec, Marker, Series};
 use eyrie::units::Temperature;
 use serde::Serialize;
 use std::collections::BTreeMap;
@@ -86,7 +85,12 @@ pub fn run(
     };
     if let Some(target) = &plot {
         let products: Vec<usize> = first.products.iter().map(|(p, _)| *p).collect();
-        target.write(&chart(&model, &rows, &products, &report.isoselective))?;
+        let iso: Vec<Temperature> = report
+            .isoselective
+            .iter()
+            .filter_map(|i| Temperature::kelvin(i.temperature_k))
+            .collect();
+        target.write(&eyrie::charts::selectivity(&model, &rows, &products, &iso))?;
     }
     if json {
         println!(
@@ -138,50 +142,4 @@ pub fn run(
     }
     print!("{out}");
     Ok(())
-}
-
-/// Product fractions (%) against temperature in °C, the unit chemists set a
-/// bath to, one line per product (its label), a marker at each isoselective
-/// temperature.
-fn chart(
-    model: &eyrie::model::Model,
-    rows: &[eyrie::kinetics::sweep::SweepRow],
-    products: &[usize],
-    iso: &[Iso],
-) -> ChartSpec {
-    let series = products
-        .iter()
-        .map(|&p| Series {
-            name: model.point(p).label.clone(),
-            points: rows
-                .iter()
-                .map(|r| {
-                    let f = r
-                        .products
-                        .iter()
-                        .find(|(q, _)| *q == p)
-                        .map_or(0.0, |x| x.1);
-                    (r.temperature.celsius(), 100.0 * f)
-                })
-                .collect(),
-        })
-        .collect();
-    let markers = iso
-        .iter()
-        .filter_map(|i| Temperature::kelvin(i.temperature_k))
-        .map(|t| Marker {
-            x: t.celsius(),
-            label: format!("isoselective: {:.1} °C", t.celsius()),
-        })
-        .collect();
-    ChartSpec {
-        title: model.title().map(str::to_string),
-        x_title: "temperature (°C)".into(),
-        y_title: "share of product (%)".into(),
-        x_scale: AxisScale::Linear,
-        y_scale: AxisScale::Linear,
-        y_include: vec![0.0, 100.0],
-        series,
-        markers,
-    }
 }
