@@ -1,7 +1,7 @@
 //! `analyze` checks its closed-form product fractions against the simulation
 //! (`selectivity.simulated`, `limit_agrees`, `limit_error`).
 
-mod common;
+use crate::common;
 
 use eyrie::report::{AnalysisReport, SelectivityReport};
 

@@ -2,7 +2,7 @@
 //! analytic cases, with the documented exit codes (0 all consistent, 1 any
 //! inconsistent, 2 invalid input; the worst code wins over several files).
 
-mod common;
+use crate::common;
 
 use common::{eyrie, write};
 use std::process::Output;

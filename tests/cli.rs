@@ -1,7 +1,7 @@
 //! The `eyrie` binary as a user runs it: exit codes, outputs, atomic writes,
 //! untouched inputs. Each test works in its own temporary folder.
 
-mod common;
+use crate::common;
 
 use common::{eyrie, repo, write};
 

@@ -1,7 +1,7 @@
 //! `eyrie export`: the numbers for the manuscript are the ones the tables show,
 //! in LaTeX, Markdown and CSV, with keys that survive any path name.
 
-mod common;
+use crate::common;
 
 use common::{eyrie, repo};
 

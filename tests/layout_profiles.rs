@@ -7,7 +7,7 @@
 //!
 //! Snapshots live in `tests/snapshots/<profile>.svg` (annotated settings).
 //! After a deliberate change to layout, rendering or text measurement run
-//! `EYRIE_BLESS=1 cargo test --test layout_profiles` and review the diff.
+//! `EYRIE_BLESS=1 cargo test --test integration layout_profiles` and review the diff.
 //! `EYRIE_RENDER_DUMP=dir` also writes every SVG into `dir` for viewing.
 
 use eyrie::figure::{FigureOptions, diagram_spec};
@@ -316,6 +316,6 @@ fn svg_matches_snapshots() {
     assert!(
         stale.is_empty(),
         "SVG differs from tests/snapshots for {stale:?}; if the change is intended, \
-         run EYRIE_BLESS=1 cargo test --test layout_profiles and review the diff"
+         run EYRIE_BLESS=1 cargo test --test integration layout_profiles and review the diff"
     );
 }

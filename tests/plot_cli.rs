@@ -2,7 +2,7 @@
 //! file in each format, the table and JSON unchanged, bad output names refused
 //! before any work with nothing written.
 
-mod common;
+use crate::common;
 use common::{eyrie, repo};
 
 const SWEEP: [&str; 8] = [

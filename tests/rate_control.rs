@@ -1,7 +1,7 @@
 //! Degrees of rate control and of selectivity control from the simulation
 //! (`eyrie::simulate::control`), against closed forms.
 
-mod common;
+use crate::common;
 
 use eyrie::model::Model;
 use eyrie::simulate::control::{RateControl, Target};

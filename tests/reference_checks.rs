@@ -6,7 +6,7 @@
 //! Every entry of the files read here is either checked or named in a skip list
 //! with the reason, so a new entry cannot be silently ignored.
 
-mod common;
+use crate::common;
 
 use eyrie::kinetics::{barrier_for_half_life, barrier_for_rate, rate_constant};
 use eyrie::units::{self, EnergyUnit, Temperature};

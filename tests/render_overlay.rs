@@ -2,7 +2,7 @@
 //! settings a profile gives itself (path colour/dash/width, pinned columns,
 //! `[figure]` spacing), checked on the scene and through the binary.
 
-mod common;
+use crate::common;
 
 use common::{eyrie, repo, write};
 use eyrie::figure::{FigureOptions, diagram_spec};

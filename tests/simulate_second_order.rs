@@ -227,8 +227,7 @@ fn sparse_and_dense_jacobians_give_the_same_course() {
     }
 }
 
-#[path = "common/mod.rs"]
-mod common;
+use crate::common;
 
 #[test]
 fn command_line_shows_the_co_reactant_in_csv_json_and_initial() {

@@ -1,6 +1,6 @@
 //! Helpers shared by the tests that run the `eyrie` binary as a user would:
 //! run it in a folder, find repository files, write scratch profiles.
-#![allow(dead_code)] // each test binary uses its own subset
+#![allow(dead_code)] // not every helper is used by every module
 
 use std::path::{Path, PathBuf};
 use std::process::{Command, Output};
