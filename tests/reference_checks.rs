@@ -6,60 +6,19 @@
 //! Every entry of the files read here is either checked or named in a skip list
 //! with the reason, so a new entry cannot be silently ignored.
 
-use crate::common;
+use crate::common::{self, Check};
 
 use eyrie::kinetics::{barrier_for_half_life, barrier_for_rate, rate_constant};
 use eyrie::units::{self, EnergyUnit, Temperature};
 use std::collections::BTreeSet;
 
-struct Check {
-    id: String,
-    value: f64,
-    rel: f64,
-    abs: f64,
-    inputs: toml::Table,
-}
-
+/// The checks of a reference file, each held to its `tolerance`.
 fn load(file: &str) -> Vec<Check> {
-    let path = format!("{}/tests/reference/{file}", env!("CARGO_MANIFEST_DIR"));
-    let text = std::fs::read_to_string(&path).expect("reference file is in the repo");
-    let doc: toml::Table = text.parse().expect("reference file is valid TOML");
-    doc["check"]
-        .as_array()
-        .expect("[[check]] tables")
-        .iter()
-        .map(|c| {
-            let tol = c["tolerance"].as_table().expect("tolerance");
-            Check {
-                id: c["id"].as_str().unwrap().to_string(),
-                value: c
-                    .get("value")
-                    .and_then(|v| v.as_float())
-                    .unwrap_or(f64::NAN),
-                rel: tol.get("rel").and_then(|v| v.as_float()).unwrap_or(0.0),
-                abs: tol.get("abs").and_then(|v| v.as_float()).unwrap_or(0.0),
-                inputs: c["inputs"].as_table().cloned().unwrap_or_default(),
-            }
-        })
-        .collect()
-}
-
-fn assert_close(c: &Check, got: f64) {
-    let allowed = (c.rel * c.value.abs()).max(c.abs);
-    assert!(
-        (got - c.value).abs() <= allowed,
-        "{}: got {got:e}, reference {:e} (allowed ±{allowed:e})",
-        c.id,
-        c.value
-    );
-}
-
-fn input(c: &Check, key: &str) -> f64 {
-    c.inputs[key].as_float().unwrap()
+    common::reference_checks(&common::reference_table(file), &["tolerance"])
 }
 
 fn temperature(c: &Check) -> Temperature {
-    Temperature::kelvin(input(c, "temperature_k")).unwrap()
+    Temperature::kelvin(c.input("temperature_k")).unwrap()
 }
 
 fn unit(c: &Check) -> EnergyUnit {
@@ -73,7 +32,7 @@ fn constants_match_codata_2018() {
     let kcal = EnergyUnit::KcalPerMol;
     let mut checked = 0;
     for c in load("constants.toml") {
-        let t = || Temperature::kelvin(input(&c, "temperature_k")).unwrap();
+        let t = || Temperature::kelvin(c.input("temperature_k")).unwrap();
         let got = match c.id.as_str() {
             "const-kB" => units::BOLTZMANN,
             "const-c" => units::SPEED_OF_LIGHT,
@@ -116,7 +75,7 @@ fn constants_match_codata_2018() {
             }
             other => panic!("reference entry {other} is neither checked nor skipped"),
         };
-        assert_close(&c, got);
+        c.assert_close(got);
         checked += 1;
     }
     assert_eq!(checked, 31, "number of constants checked");
@@ -139,29 +98,20 @@ fn eyring_rate_constants_and_half_lives() {
             continue;
         }
         let got = if id.starts_with("eyring-k-") || id.starts_with("eyring-thalf-") {
-            let k = rate_constant(
-                input(&c, "dg"),
-                unit(&c),
-                temperature(&c),
-                input(&c, "kappa"),
-            );
+            let k = rate_constant(c.input("dg"), unit(&c), temperature(&c), c.input("kappa"));
             if id.starts_with("eyring-k-") {
                 k.per_second()
             } else {
                 k.half_life_s()
             }
         } else if id.starts_with("eyring-barrier-for-k") {
-            barrier_for_rate(input(&c, "k"), EnergyUnit::KcalPerMol, temperature(&c))
+            barrier_for_rate(c.input("k"), EnergyUnit::KcalPerMol, temperature(&c))
         } else if id.starts_with("eyring-barrier-for-thalf") {
-            barrier_for_half_life(
-                input(&c, "t_half_s"),
-                EnergyUnit::KcalPerMol,
-                temperature(&c),
-            )
+            barrier_for_half_life(c.input("t_half_s"), EnergyUnit::KcalPerMol, temperature(&c))
         } else {
             panic!("reference entry {id} is neither checked nor skipped");
         };
-        assert_close(&c, got);
+        c.assert_close(got);
         checked += 1;
     }
     assert_eq!(checked, 47, "number of Eyring entries checked");
@@ -307,20 +257,20 @@ fn selectivity_conversions() {
                 .map_or(t298, |_| temperature(&c))
         };
         let got = if id.starts_with("ratio-to-ddg-") {
-            let conv = Conversion::new(Given::Ratio(input(&c, "ratio")), t());
+            let conv = Conversion::new(Given::Ratio(c.input("ratio")), t());
             if id.ends_with("-kJ") {
                 conv.ddg_kj_mol
             } else {
                 conv.ddg_kcal_mol
             }
         } else if id.starts_with("ee-to-ddg-") {
-            Conversion::new(Given::Excess(input(&c, "ee_percent")), t()).ddg_kcal_mol
+            Conversion::new(Given::Excess(c.input("ee_percent")), t()).ddg_kcal_mol
         } else if id.starts_with("ratio-to-ee-") {
-            Conversion::new(Given::Ratio(input(&c, "ratio")), t298).ee_percent
+            Conversion::new(Given::Ratio(c.input("ratio")), t298).ee_percent
         } else if id.starts_with("ee-to-ratio-") {
-            Conversion::new(Given::Excess(input(&c, "ee_percent")), t298).ratio
+            Conversion::new(Given::Excess(c.input("ee_percent")), t298).ratio
         } else if id.starts_with("ddg-to-ratio-") || id.starts_with("ddg-to-ee-") {
-            let conv = Conversion::new(Given::Energy(input(&c, "ddg"), unit(&c)), t());
+            let conv = Conversion::new(Given::Energy(c.input("ddg"), unit(&c)), t());
             if id.starts_with("ddg-to-ratio-") {
                 conv.ratio
             } else {
@@ -350,7 +300,7 @@ fn selectivity_conversions() {
         } else {
             panic!("reference entry {id} is neither checked nor skipped");
         };
-        assert_close(&c, got);
+        c.assert_close(got);
         checked += 1;
     }
     assert_eq!(checked, 50, "selectivity entries checked");
@@ -363,11 +313,7 @@ fn winstein_holness_exact_solution() {
     // in tests/reference/winstein_holness.toml (cross-checked there with scipy solve_ivp
     // and expm). Rate constants come from eyrie's Eyring function.
     use eyrie::kinetics::winstein_holness::TwoPools;
-    let path = format!(
-        "{}/tests/reference/winstein_holness.toml",
-        env!("CARGO_MANIFEST_DIR")
-    );
-    let doc: toml::Table = std::fs::read_to_string(path).unwrap().parse().unwrap();
+    let doc = common::reference_table("winstein_holness.toml");
     let systems = doc["system"].as_array().unwrap();
     let setup = |name: &str| {
         let s = systems
@@ -433,7 +379,7 @@ fn winstein_holness_exact_solution() {
                     let (fa, fb) = (net.absorption(0, &traps), net.absorption(1, &traps));
                     let into_c = a0 * fa[2] + b0 * fb[2];
                     let into_d = a0 * fa[3] + b0 * fb[3];
-                    assert_close(&c, into_d / into_c);
+                    c.assert_close(into_d / into_c);
                     p.final_ratio(a0, b0)
                 }
                 "final-fraction-D" => {
@@ -441,7 +387,7 @@ fn winstein_holness_exact_solution() {
                     r / (1.0 + r)
                 }
                 w if w.starts_with("conc-") => {
-                    let x = p.at(input(&c, "time_s"), a0, b0);
+                    let x = p.at(c.input("time_s"), a0, b0);
                     match &w[5..6] {
                         "A" => x.a,
                         "B" => x.b,
@@ -452,7 +398,7 @@ fn winstein_holness_exact_solution() {
                 other => panic!("{id}: unhandled quantity {other}"),
             }
         };
-        assert_close(&c, got);
+        c.assert_close(got);
         checked += 1;
     }
     assert_eq!(checked, 45, "Winstein–Holness entries checked");
@@ -464,11 +410,7 @@ fn tunnelling_corrections() {
     // truncated κ = (u/2)/sin(u/2), valid for u < 2π (Bell, The Tunnel Effect in
     // Chemistry, 1980); values in tests/reference/tunnelling.toml.
     use eyrie::kinetics::corrections::{bell, bell_limit_cm, tunnelling_u, wigner};
-    let path = format!(
-        "{}/tests/reference/tunnelling.toml",
-        env!("CARGO_MANIFEST_DIR")
-    );
-    let doc: toml::Table = std::fs::read_to_string(path).unwrap().parse().unwrap();
+    let doc = common::reference_table("tunnelling.toml");
     let mut checked = 0;
     for (c, raw) in load("tunnelling.toml")
         .into_iter()
@@ -476,7 +418,7 @@ fn tunnelling_corrections() {
     {
         let id = c.id.as_str();
         let t = temperature(&c);
-        let nu = || input(&c, "imaginary_frequency_cm");
+        let nu = || c.input("imaginary_frequency_cm");
         if id.starts_with("tunnel-bell-")
             && raw.get("valid").and_then(|v| v.as_bool()) == Some(false)
         {
@@ -497,11 +439,11 @@ fn tunnelling_corrections() {
             bell(nu(), t).unwrap()
         } else if id.starts_with("tunnel-k-wigner-") {
             let kappa = wigner(nu(), t);
-            rate_constant(input(&c, "dg"), unit(&c), t, kappa).per_second()
+            rate_constant(c.input("dg"), unit(&c), t, kappa).per_second()
         } else {
             panic!("reference entry {id} is neither checked nor skipped");
         };
-        assert_close(&c, got);
+        c.assert_close(got);
         checked += 1;
     }
     assert_eq!(checked, 23, "tunnelling entries checked");
@@ -532,21 +474,20 @@ fn standard_state_and_pseudo_first_order() {
             units::GAS_CONSTANT * t().k() / units::ATMOSPHERE * 1000.0
         } else if id == "stdstate-bimolecular-barrier-298.15K" {
             let dn = c.inputs["molecularity_change"].as_integer().unwrap() as f64;
-            input(&c, "dg_1atm")
-                + dn * standard_state_shift(PressureStandard::Atmosphere, t(), kcal)
+            c.input("dg_1atm") + dn * standard_state_shift(PressureStandard::Atmosphere, t(), kcal)
         } else if id == "stdstate-unimolecular-shift" {
             let dn = c.inputs["molecularity_change"].as_integer().unwrap() as f64;
             let t298 = Temperature::kelvin(298.15).unwrap();
             dn * standard_state_shift(PressureStandard::Atmosphere, t298, kcal)
         } else if id.starts_with("pseudo-first-order-shift-") {
-            pseudo_first_order_shift(input(&c, "concentration_mol_per_l"), t(), kcal)
+            pseudo_first_order_shift(c.input("concentration_mol_per_l"), t(), kcal)
         } else if id == "pseudo-first-order-k-298.15K" {
-            let shift = pseudo_first_order_shift(input(&c, "concentration_mol_per_l"), t(), kcal);
-            rate_constant(input(&c, "dg") + shift, unit(&c), t(), 1.0).per_second()
+            let shift = pseudo_first_order_shift(c.input("concentration_mol_per_l"), t(), kcal);
+            rate_constant(c.input("dg") + shift, unit(&c), t(), 1.0).per_second()
         } else {
             panic!("reference entry {id} is neither checked nor skipped");
         };
-        assert_close(&c, got);
+        c.assert_close(got);
         checked += 1;
     }
     assert_eq!(checked, 15, "standard-state entries checked");
@@ -585,21 +526,17 @@ fn kinetic_isotope_effects_from_a_zero_point_variant() {
             continue;
         }
         let got = if id.starts_with("kie-nuD-") {
-            deuterium_stretch(input(&c, "nu_H_cm"))
+            deuterium_stretch(c.input("nu_H_cm"))
         } else if id.starts_with("kie-dzpe-") {
-            EnergyUnit::KcalPerMol.from_j_per_mol(zero_point_difference(input(&c, "nu_H_cm")))
+            EnergyUnit::KcalPerMol.from_j_per_mol(zero_point_difference(c.input("nu_H_cm")))
         } else if id.starts_with("kie-semiclassical-") {
-            kie_of(input(&c, "nu_H_cm"), input(&c, "temperature_k"))
+            kie_of(c.input("nu_H_cm"), c.input("temperature_k"))
         } else if id.starts_with("kie-from-ddg-") {
-            eyrie::kinetics::selectivity::ratio_from_ddg(
-                input(&c, "ddg"),
-                unit(&c),
-                temperature(&c),
-            )
+            eyrie::kinetics::selectivity::ratio_from_ddg(c.input("ddg"), unit(&c), temperature(&c))
         } else {
             panic!("reference entry {id} is neither checked nor skipped");
         };
-        assert_close(&c, got);
+        c.assert_close(got);
         checked += 1;
     }
     assert_eq!(checked, 8, "KIE entries checked");

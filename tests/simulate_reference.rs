@@ -8,55 +8,17 @@
 //! 60 kcal/mol below their precursors so that the reverse steps (k·e^−101)
 //! do not matter at these tolerances.
 
+use crate::common::{self, Check};
 use eyrie::kinetics::barrier_for_rate;
 use eyrie::simulate::{Initial, Options, Until, simulate};
 use eyrie::units::{EnergyUnit, Temperature};
 
-struct Check {
-    id: String,
-    value: f64,
-    rel: f64,
-    abs: f64,
-    inputs: toml::Table,
-}
-
+/// A reference file and its checks, each held to its `tolerance_ode` (or
+/// `tolerance` where the entry has no integrated value).
 fn load(file: &str) -> (toml::Table, Vec<Check>) {
-    let path = format!("{}/tests/reference/{file}", env!("CARGO_MANIFEST_DIR"));
-    let doc: toml::Table = std::fs::read_to_string(path).unwrap().parse().unwrap();
-    let checks = doc["check"]
-        .as_array()
-        .unwrap()
-        .iter()
-        .map(|c| {
-            let tol = c
-                .get("tolerance_ode")
-                .or_else(|| c.get("tolerance"))
-                .and_then(|t| t.as_table())
-                .unwrap();
-            let f = |k: &str| tol.get(k).and_then(|v| v.as_float()).unwrap_or(0.0);
-            Check {
-                id: c["id"].as_str().unwrap().to_string(),
-                value: c
-                    .get("value")
-                    .and_then(|v| v.as_float())
-                    .unwrap_or(f64::NAN),
-                rel: f("rel"),
-                abs: f("abs"),
-                inputs: c["inputs"].as_table().cloned().unwrap_or_default(),
-            }
-        })
-        .collect();
+    let doc = common::reference_table(file);
+    let checks = common::reference_checks(&doc, &["tolerance_ode", "tolerance"]);
     (doc, checks)
-}
-
-fn assert_close(c: &Check, got: f64) {
-    let allowed = (c.rel * c.value.abs()).max(c.abs);
-    assert!(
-        (got - c.value).abs() <= allowed,
-        "{}: simulated {got:e}, reference {:e} (allowed ±{allowed:e})",
-        c.id,
-        c.value
-    );
 }
 
 fn table<'a>(doc: &'a toml::Table, kind: &str, name: &str) -> &'a toml::Table {
@@ -127,7 +89,7 @@ fn bateman_time_courses() {
         let time = c.inputs["time_s"].as_float().unwrap();
         let x = run(&profile, Initial::Reference, Until::Time(time));
         let species = c.id.split('-').rev().nth(1).unwrap();
-        assert_close(c, get(&x, species));
+        c.assert_close(get(&x, species));
         n += 1;
     }
     assert!(n >= 30, "only {n} Bateman entries checked");
@@ -174,7 +136,7 @@ fn winstein_holness_ratios_and_time_courses() {
                     .split('-')
                     .next()
                     .unwrap();
-            assert_close(c, get(&x, species));
+            c.assert_close(get(&x, species));
             n += 1;
         } else if c.id.ends_with("final-ratio") || c.id.ends_with("final-fraction-D") {
             // 1e-12 of the material left in A and B: the ratio is final to 1e-12.
@@ -185,7 +147,7 @@ fn winstein_holness_ratios_and_time_courses() {
             } else {
                 dd / (cc + dd)
             };
-            assert_close(c, got);
+            c.assert_close(got);
             n += 1;
         }
     }
@@ -210,17 +172,14 @@ fn reversible_step_reaches_exp_minus_dg_over_rt() {
     let by_id = |id: &str| checks.iter().find(|c| c.id == id).unwrap();
     // Default rule: stops at equilibrium (99 % conversion is out of reach).
     let x = run(&profile, Initial::Reference, Until::Default);
-    assert_close(
-        by_id("equilibrium-reversible-K-simulated"),
-        get(&x, "B") / get(&x, "A"),
-    );
+    by_id("equilibrium-reversible-K-simulated").assert_close(get(&x, "B") / get(&x, "A"));
     let c = by_id("equilibrium-reversible-B-at-tau");
     let x = run(
         &profile,
         Initial::Reference,
         Until::Time(c.inputs["time_s"].as_float().unwrap()),
     );
-    assert_close(c, get(&x, "B"));
+    c.assert_close(get(&x, "B"));
 }
 
 /// Energetic span model (Kozuch & Shaik, J. Phys. Chem. A 2008, 112, 6032):

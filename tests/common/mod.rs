@@ -33,6 +33,63 @@ pub fn reference_table(file: &str) -> toml::Table {
     std::fs::read_to_string(path).unwrap().parse().unwrap()
 }
 
+/// One `[[check]]` entry of a reference file: the value, its tolerance and
+/// the inputs it was computed from.
+pub struct Check {
+    pub id: String,
+    pub value: f64,
+    pub rel: f64,
+    pub abs: f64,
+    pub inputs: toml::Table,
+}
+
+impl Check {
+    /// A numeric input of the entry.
+    pub fn input(&self, key: &str) -> f64 {
+        self.inputs[key].as_float().unwrap()
+    }
+
+    /// Asserts `got` is within the entry's tolerance: the larger of
+    /// `rel × |value|` and `abs`.
+    pub fn assert_close(&self, got: f64) {
+        let allowed = (self.rel * self.value.abs()).max(self.abs);
+        assert!(
+            (got - self.value).abs() <= allowed,
+            "{}: got {got:e}, reference {:e} (allowed ±{allowed:e})",
+            self.id,
+            self.value
+        );
+    }
+}
+
+/// The `[[check]]` entries of a reference table, each held to the first of
+/// `tolerance_keys` it has (integrated values carry a looser `tolerance_ode`).
+pub fn reference_checks(doc: &toml::Table, tolerance_keys: &[&str]) -> Vec<Check> {
+    doc["check"]
+        .as_array()
+        .expect("[[check]] tables")
+        .iter()
+        .map(|c| {
+            let tol = tolerance_keys
+                .iter()
+                .find_map(|k| c.get(*k))
+                .and_then(|t| t.as_table())
+                .expect("a tolerance table");
+            let f = |k: &str| tol.get(k).and_then(|v| v.as_float()).unwrap_or(0.0);
+            Check {
+                id: c["id"].as_str().unwrap().to_string(),
+                value: c
+                    .get("value")
+                    .and_then(|v| v.as_float())
+                    .unwrap_or(f64::NAN),
+                rel: f("rel"),
+                abs: f("abs"),
+                inputs: c["inputs"].as_table().cloned().unwrap_or_default(),
+            }
+        })
+        .collect()
+}
+
 /// A TOML array of numbers.
 pub fn floats(v: &toml::Value) -> Vec<f64> {
     v.as_array()
