@@ -4,30 +4,19 @@
 
 use crate::common;
 
-use common::{eyrie, write};
+use common::{PAIR, RT_298_KCAL as RT, eyrie, write};
+use std::path::Path;
 use std::process::Output;
 
-/// RT at 298.15 K in kcal/mol (CODATA 2018; tests/reference/constants.toml).
-const RT: f64 = 0.592484949713764;
-
-/// One reactant, two products: a single reacting state, so the predicted ratio
-/// is exp(ΔΔG‡/RT) with ΔΔG‡ = 19.4 − 18.1 = 1.3 kcal/mol (closed form).
-const PAIR: &str = r#"unit = "kcal/mol"
-temperature = 298.15
-[states]
-r = 0.0
-pa = -8.0
-pb = -7.0
-[ts]
-ts-a = 19.4
-ts-b = 18.1
-[[path]]
-name = "to b"
-via = ["r", "ts-b", "pb"]
-[[path]]
-name = "to a"
-via = ["r", "ts-a", "pa"]
-"#;
+/// Writes `text` to `dir/name` and runs `eyrie check` on it.
+fn check(dir: &Path, name: &str, text: &str, json: bool) -> Output {
+    let path = write(dir, name, text);
+    let mut args = vec!["check", path.to_str().unwrap()];
+    if json {
+        args.push("--json");
+    }
+    eyrie(&args, dir)
+}
 
 fn json(out: &Output) -> serde_json::Value {
     serde_json::from_slice(&out.stdout).expect("stdout is JSON")
@@ -37,12 +26,12 @@ fn json(out: &Output) -> serde_json::Value {
 fn a_ratio_within_tolerance_is_consistent_and_outside_it_is_not() {
     let dir = tempfile::tempdir().unwrap();
     let obs = "[[observed]]\nkind = \"ratio\"\nproducts = [\"pb\", \"pa\"]\nvalue = 4.0\n";
-    let ok = write(
+    let out = check(
         dir.path(),
         "ok.toml",
         &format!("{PAIR}{obs}tolerance = 1.0\n"),
+        true,
     );
-    let out = eyrie(&["check", ok.to_str().unwrap(), "--json"], dir.path());
     assert_eq!(
         out.status.code(),
         Some(0),
@@ -61,12 +50,12 @@ fn a_ratio_within_tolerance_is_consistent_and_outside_it_is_not() {
     assert!((e["energy_error"].as_f64().unwrap() - want).abs() < 1e-9);
     assert!(e["file"].as_str().unwrap().ends_with("ok.toml"));
 
-    let tight = write(
+    let out = check(
         dir.path(),
         "tight.toml",
         &format!("{PAIR}{obs}tolerance = 0.3\n"),
+        false,
     );
-    let out = eyrie(&["check", tight.to_str().unwrap()], dir.path());
     assert_eq!(out.status.code(), Some(1));
     let text = String::from_utf8_lossy(&out.stdout);
     assert!(
@@ -80,31 +69,25 @@ fn the_measurement_uncertainty_widens_what_counts_as_consistent() {
     // Observed 2 ± 2.5: the interval reaches the predicted 8.96:1 only with the
     // tolerance: RT·ln(8.96/4.5) = 0.41 kcal/mol (closed form).
     let dir = tempfile::tempdir().unwrap();
-    let p = write(
+    let out = check(
         dir.path(),
         "u.toml",
         &format!(
             "{PAIR}[[observed]]\nkind = \"ratio\"\nproducts = [\"pb\", \"pa\"]\nvalue = 2.0\nuncertainty = 2.5\ntolerance = 0.5\n"
         ),
+        true,
     );
-    let out = eyrie(&["check", p.to_str().unwrap(), "--json"], dir.path());
     assert_eq!(
         out.status.code(),
         Some(0),
         "{}",
         String::from_utf8_lossy(&out.stdout)
     );
-    let p = write(
-        dir.path(),
-        "v.toml",
-        &format!(
-            "{PAIR}[[observed]]\nkind = \"ratio\"\nproducts = [\"pb\", \"pa\"]\nvalue = 2.0\ntolerance = 0.5\n"
-        ),
+    let text = format!(
+        "{PAIR}[[observed]]\nkind = \"ratio\"\nproducts = [\"pb\", \"pa\"]\nvalue = 2.0\ntolerance = 0.5\n"
     );
     assert_eq!(
-        eyrie(&["check", p.to_str().unwrap()], dir.path())
-            .status
-            .code(),
+        check(dir.path(), "v.toml", &text, false).status.code(),
         Some(1)
     );
 }
@@ -149,14 +132,14 @@ fn a_measured_tof_is_compared_with_the_energetic_span_tof() {
     ))
     .unwrap();
     let dir = tempfile::tempdir().unwrap();
-    let p = write(
+    let out = check(
         dir.path(),
         "c.toml",
         &format!(
             "{profile}\n[[observed]]\nkind = \"tof\"\ncycle = \"turnover\"\nvalue = 1.5e-5\ntolerance = 1.0\n"
         ),
+        true,
     );
-    let out = eyrie(&["check", p.to_str().unwrap(), "--json"], dir.path());
     assert_eq!(
         out.status.code(),
         Some(0),
@@ -211,14 +194,14 @@ fn several_files_report_the_bad_one_and_exit_with_the_worst_code() {
 #[test]
 fn observations_are_validated_with_located_errors() {
     let dir = tempfile::tempdir().unwrap();
-    let p = write(
+    let out = check(
         dir.path(),
         "o.toml",
         &format!(
             "{PAIR}[[observed]]\nkind = \"ratoi\"\nvalue = 4.0\n[[observed]]\nkind = \"ratio\"\nproducts = [\"pb\", \"px\"]\nvalue = -1\n"
         ),
+        false,
     );
-    let out = eyrie(&["check", p.to_str().unwrap()], dir.path());
     assert_eq!(out.status.code(), Some(2));
     let err = String::from_utf8_lossy(&out.stderr);
     assert!(err.contains("did you mean 'ratio'"), "{err}");

@@ -4,32 +4,16 @@
 //! ratio is exp(ΔΔG‡/RT) with ΔΔG‡ ~ N(1.3, √2 kcal/mol) (the reactant's own
 //! draw cancels), so ln(ratio) is normal and its quantiles are closed form.
 
+use crate::common::{PAIR, RT_298_KCAL as RT};
 use eyrie::kinetics::uncertainty::monte_carlo;
 use eyrie::profile::parse;
 
-/// RT at 298.15 K in kcal/mol (CODATA 2018; tests/reference/constants.toml).
-const RT: f64 = 0.592484949713764;
-
 fn profile(samples: usize, seed: u64) -> String {
     format!(
-        r#"unit = "kcal/mol"
-[uncertainty]
+        r#"{PAIR}[uncertainty]
 sigma = 1.0
 samples = {samples}
 seed = {seed}
-[states]
-r = 0.0
-pa = -8.0
-pb = -7.0
-[ts]
-ts-a = 19.4
-ts-b = 18.1
-[[path]]
-name = "to b"
-via = ["r", "ts-b", "pb"]
-[[path]]
-name = "to a"
-via = ["r", "ts-a", "pa"]
 [[observed]]
 kind = "ratio"
 products = ["pb", "pa"]

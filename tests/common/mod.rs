@@ -5,6 +5,28 @@
 use std::path::{Path, PathBuf};
 use std::process::{Command, Output};
 
+/// RT at 298.15 K in kcal/mol (CODATA 2018; tests/reference/constants.toml).
+pub const RT_298_KCAL: f64 = 0.592484949713764;
+
+/// One reactant, two products: a single reacting state, so the predicted ratio
+/// pb:pa is exp(ΔΔG‡/RT) with ΔΔG‡ = 19.4 − 18.1 = 1.3 kcal/mol (closed form).
+pub const PAIR: &str = r#"unit = "kcal/mol"
+temperature = 298.15
+[states]
+r = 0.0
+pa = -8.0
+pb = -7.0
+[ts]
+ts-a = 19.4
+ts-b = 18.1
+[[path]]
+name = "to b"
+via = ["r", "ts-b", "pb"]
+[[path]]
+name = "to a"
+via = ["r", "ts-a", "pa"]
+"#;
+
 /// Runs `eyrie ARGS` with `dir` as the working folder.
 pub fn eyrie(args: &[&str], dir: &Path) -> Output {
     Command::new(env!("CARGO_BIN_EXE_eyrie"))
