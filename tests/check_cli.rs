@@ -32,12 +32,7 @@ fn a_ratio_within_tolerance_is_consistent_and_outside_it_is_not() {
         &format!("{PAIR}{obs}tolerance = 1.0\n"),
         true,
     );
-    assert_eq!(
-        out.status.code(),
-        Some(0),
-        "{}",
-        String::from_utf8_lossy(&out.stderr)
-    );
+    common::assert_exit(&out, 0);
     let v = json(&out);
     let e = &v[0];
     assert_eq!(e["kind"], "ratio");
@@ -77,12 +72,7 @@ fn the_measurement_uncertainty_widens_what_counts_as_consistent() {
         ),
         true,
     );
-    assert_eq!(
-        out.status.code(),
-        Some(0),
-        "{}",
-        String::from_utf8_lossy(&out.stdout)
-    );
+    common::assert_exit(&out, 0);
     let text = format!(
         "{PAIR}[[observed]]\nkind = \"ratio\"\nproducts = [\"pb\", \"pa\"]\nvalue = 2.0\ntolerance = 0.5\n"
     );
@@ -140,12 +130,7 @@ fn a_measured_tof_is_compared_with_the_energetic_span_tof() {
         ),
         true,
     );
-    assert_eq!(
-        out.status.code(),
-        Some(0),
-        "{}",
-        String::from_utf8_lossy(&out.stderr)
-    );
+    common::assert_exit(&out, 0);
     let v = json(&out);
     assert_eq!(v[0]["unit"], "kJ/mol");
     let predicted = v[0]["predicted"].as_f64().unwrap();

@@ -12,12 +12,7 @@ fn the_exported_numbers_are_the_analysed_ones() {
         &["export", &repo("profiles/demo.toml"), "-o", "n.csv"],
         dir.path(),
     );
-    assert_eq!(
-        out.status.code(),
-        Some(0),
-        "{}",
-        String::from_utf8_lossy(&out.stderr)
-    );
+    common::assert_exit(&out, 0);
     let csv = std::fs::read_to_string(dir.path().join("n.csv")).unwrap();
     let json = eyrie(
         &["analyze", &repo("profiles/demo.toml"), "--json"],
@@ -49,12 +44,7 @@ fn latex_defines_one_macro_per_number_with_safe_keys() {
         ],
         dir.path(),
     );
-    assert_eq!(
-        out.status.code(),
-        Some(0),
-        "{}",
-        String::from_utf8_lossy(&out.stderr)
-    );
+    common::assert_exit(&out, 0);
     let tex = std::fs::read_to_string(dir.path().join("n.tex")).unwrap();
     assert!(tex.contains("\\providecommand{\\eyrie}[1]{\\csname eyrie@#1\\endcsname}"));
     // "ring closure" has a space: its key uses a dash.

@@ -36,6 +36,17 @@ pub fn eyrie(args: &[&str], dir: &Path) -> Output {
         .expect("the binary runs")
 }
 
+/// Asserts the run ended with exit code `code`, showing what it printed if not.
+pub fn assert_exit(out: &Output, code: i32) {
+    assert_eq!(
+        out.status.code(),
+        Some(code),
+        "stdout:\n{}\nstderr:\n{}",
+        String::from_utf8_lossy(&out.stdout),
+        String::from_utf8_lossy(&out.stderr)
+    );
+}
+
 /// A path inside the repository, as a string for the command line.
 pub fn repo(path: &str) -> String {
     format!("{}/{path}", env!("CARGO_MANIFEST_DIR"))
