@@ -7,6 +7,8 @@
 //! (rustybuzz) that draws the PNG and the PDF, so the widths it plans with are
 //! the widths that get drawn: exactly, kerning included.
 
+use std::cell::RefCell;
+use std::collections::HashMap;
 use std::sync::OnceLock;
 
 /// The family name of the bundled font.
@@ -28,9 +30,9 @@ pub static ITALIC: &[u8] = include_bytes!("../assets/fonts/DejaVuSans-Oblique.tt
 pub enum Face {
     /// Upright text.
     #[default]
-    Regular,
+    Regular = 0,
     /// Italic text (`font-style="italic"` in SVG; DejaVu Sans Oblique).
-    Italic,
+    Italic = 1,
 }
 
 fn face(which: Face) -> &'static rustybuzz::Face<'static> {
@@ -59,15 +61,75 @@ pub fn advance_em(c: char, which: Face) -> f64 {
 
 /// Width of one line of text in em, shaped left to right as resvg and svg2pdf
 /// shape it (default OpenType features, so kerning applies).
+///
+/// The layout measures the same few labels hundreds of times while it tries
+/// candidate spots and line breaks, so widths are remembered per thread (and
+/// the shaping plan per script): a pure function of the text and the face,
+/// so the result is the same as shaping afresh.
 pub fn width_em(text: &str, which: Face) -> f64 {
     if text.is_empty() {
         return 0.0;
     }
+    WIDTHS.with(|cell| {
+        let mut widths = cell.borrow_mut();
+        let widths = &mut widths[which as usize];
+        if let Some(&w) = widths.get(text) {
+            return w;
+        }
+        let w = shaped_width_em(text, which);
+        if widths.len() >= MAX_REMEMBERED {
+            widths.clear();
+        }
+        widths.insert(text.to_string(), w);
+        w
+    })
+}
+
+/// How many widths a thread remembers per face before it starts over (a long
+/// `eyrie watch` session must not grow without bound).
+const MAX_REMEMBERED: usize = 4096;
+
+type Plans = Vec<(Face, Option<rustybuzz::Script>, rustybuzz::ShapePlan)>;
+
+thread_local! {
+    /// Shaped widths in em by text, one map per face (indexed by `Face as usize`).
+    static WIDTHS: RefCell<[HashMap<String, f64>; 2]> = RefCell::default();
+    /// Shaping plans by face and script.
+    static PLANS: RefCell<Plans> = const { RefCell::new(Vec::new()) };
+}
+
+/// Shapes `text` with a plan made once per face and script, exactly as
+/// `rustybuzz::shape` would make it (direction left to right, no language, no
+/// extra features).
+fn shaped_width_em(text: &str, which: Face) -> f64 {
     let f = face(which);
     let mut buffer = rustybuzz::UnicodeBuffer::new();
     buffer.push_str(text);
     buffer.set_direction(rustybuzz::Direction::LeftToRight);
-    let shaped = rustybuzz::shape(f, &[], buffer);
+    buffer.guess_segment_properties();
+    // The guess never settles on "unknown": that value means no script.
+    let script = Some(buffer.script()).filter(|s| *s != rustybuzz::script::UNKNOWN);
+    let shaped = PLANS.with(|cell| {
+        let mut plans = cell.borrow_mut();
+        let i = match plans
+            .iter()
+            .position(|(w, s, _)| *w == which && *s == script)
+        {
+            Some(i) => i,
+            None => {
+                let plan = rustybuzz::ShapePlan::new(
+                    f,
+                    rustybuzz::Direction::LeftToRight,
+                    script,
+                    None,
+                    &[],
+                );
+                plans.push((which, script, plan));
+                plans.len() - 1
+            }
+        };
+        rustybuzz::shape_with_plan(f, &plans[i].2, buffer)
+    });
     let units: i64 = shaped
         .glyph_positions()
         .iter()
@@ -116,5 +178,36 @@ mod tests {
         let av: f64 = "AV".chars().map(|c| advance_em(c, Face::Regular)).sum();
         assert!(width_em("AV", Face::Regular) < av);
         assert_eq!(width_em("", Face::Italic), 0.0);
+    }
+
+    #[test]
+    fn remembered_widths_equal_fresh_shaping() {
+        // rustybuzz's own `shape` (its plan made for each call) is the
+        // reference; asked twice, so the second answer comes from memory.
+        for text in [
+            "AV",
+            "TS-recombination",
+            "−15.8",
+            "ΔG‡",
+            "12 + ΔΔG",
+            "αβ Wa",
+            "‡",
+        ] {
+            for which in [Face::Regular, Face::Italic] {
+                let f = face(which);
+                let mut buffer = rustybuzz::UnicodeBuffer::new();
+                buffer.push_str(text);
+                buffer.set_direction(rustybuzz::Direction::LeftToRight);
+                let shaped = rustybuzz::shape(f, &[], buffer);
+                let units: i64 = shaped
+                    .glyph_positions()
+                    .iter()
+                    .map(|p| i64::from(p.x_advance))
+                    .sum();
+                let fresh = units as f64 / per_em(f);
+                assert_eq!(width_em(text, which), fresh, "{text}");
+                assert_eq!(width_em(text, which), fresh, "{text}, remembered");
+            }
+        }
     }
 }
