@@ -3,11 +3,13 @@
 //! reference state over [0, T], T being the time the default `simulate` run
 //! reaches (99 % conversion or equilibrium). Prints one line of JSON:
 //! {"states", "t_end_s", "linear", "seconds" (median of the repeats),
-//! "best_seconds" (the fastest: least disturbed by other work), "steps"}.
+//! "best_seconds" (the fastest: least disturbed by other work), and the
+//! solver's work as scipy counts it: "steps", "rejected", "newton",
+//! "nfev", "njev", "nlu"}.
 //!
 //!     cargo run --release --example simulate_timing -- FILE [REPEATS] [dense|sparse]
 
-use eyrie::simulate::integrate::{Flow, Linear, Tolerances, integrate_with};
+use eyrie::simulate::integrate::{Counts, Flow, Linear, Tolerances, integrate_with};
 use eyrie::simulate::{Initial, Network, Options, simulate};
 use std::time::Instant;
 
@@ -46,14 +48,20 @@ fn main() {
         _ => Linear::for_size(net.dim()),
     };
     let mut times = Vec::new();
-    let mut steps = 0;
+    let mut counts = Counts::default();
     for _ in 0..repeats {
-        steps = 0;
         let start = Instant::now();
-        integrate_with(linear, &net, &x0, t_end, Tolerances::default(), &mut |_| {
-            steps += 1;
-            Ok(Flow::Continue)
-        })
+        integrate_with(
+            linear,
+            &net,
+            &x0,
+            t_end,
+            Tolerances::default(),
+            &mut |view| {
+                counts = view.counts;
+                Ok(Flow::Continue)
+            },
+        )
         .unwrap_or_else(|e| {
             eprintln!("{file}: {e}");
             std::process::exit(1)
@@ -62,9 +70,15 @@ fn main() {
     }
     times.sort_by(f64::total_cmp);
     println!(
-        "{{\"states\": {}, \"t_end_s\": {t_end:e}, \"linear\": \"{linear:?}\", \"seconds\": {:e}, \"best_seconds\": {:e}, \"steps\": {steps}}}",
+        "{{\"states\": {}, \"t_end_s\": {t_end:e}, \"linear\": \"{linear:?}\", \"seconds\": {:e}, \"best_seconds\": {:e}, \"steps\": {}, \"rejected\": {}, \"newton\": {}, \"nfev\": {}, \"njev\": {}, \"nlu\": {}}}",
         net.dim(),
         times[times.len() / 2],
-        times[0]
+        times[0],
+        counts.steps,
+        counts.rejected,
+        counts.newton_iterations,
+        counts.rhs,
+        counts.jacobians,
+        counts.factorisations,
     );
 }

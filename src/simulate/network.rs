@@ -277,14 +277,21 @@ impl Network {
     pub fn rhs(&self, x: &[f64], y: &mut [f64]) {
         y.fill(0.0);
         for r in &self.reactions {
-            if r.forward_with.is_empty() && r.reverse_with.is_empty() {
-                // The common first-order step, without the co-reactant
-                // loops (the same arithmetic as `rates` and `apply`).
-                self.apply_first_order(r, r.kf * x[r.from] - r.kr * x[r.to], y);
-            } else {
-                let (f, b) = self.rates(r, x);
-                self.apply(r, f - b, y);
-            }
+            self.add_flux(r, x, y);
+        }
+    }
+
+    /// Adds the net flux of reaction `r` at `x` to dx/dt in `y` (one term of
+    /// [`Network::rhs`]).
+    #[inline]
+    pub fn add_flux(&self, r: &Reaction, x: &[f64], y: &mut [f64]) {
+        if r.forward_with.is_empty() && r.reverse_with.is_empty() {
+            // The common first-order step, without the co-reactant loops
+            // (the same arithmetic as `rates` and `apply`).
+            self.apply_first_order(r, r.kf * x[r.from] - r.kr * x[r.to], y);
+        } else {
+            let (f, b) = self.rates(r, x);
+            self.apply(r, f - b, y);
         }
     }
 
