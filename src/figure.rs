@@ -309,7 +309,7 @@ fn cycle_spans(model: &Model, energy: &dyn Fn(f64) -> String) -> Vec<(usize, Ann
                 tdts,
                 lines: vec![
                     format!("δ*E* = {}", energy(d.span)),
-                    format!("TOF = {} s^-1", format::scientific(c.span.tof)),
+                    format!("TOF = {} s^-1", format::scientific_markup(c.span.tof)),
                 ],
             },
         ));

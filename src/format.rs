@@ -41,6 +41,21 @@ pub fn scientific(value: f64) -> String {
     }
 }
 
+/// [`scientific`] as a figure prints it, in the label markup
+/// (`layout::markup`): the same digits, with "2.09e-3" written
+/// "2.09 × 10^-3" (drawn as 2.09 × 10⁻³) and the true minus sign, because a
+/// printed figure shows no computer notation.
+pub fn scientific_markup(value: f64) -> String {
+    // The markup turns the exponent's "-" into a superscript minus; the
+    // mantissa's sign is written as the minus sign here.
+    let text = scientific(value);
+    let (mantissa, power) = match text.split_once('e') {
+        Some((m, e)) => (m, format!(" × 10^{e}")),
+        None => (text.as_str(), String::new()),
+    };
+    format!("{}{power}", mantissa.replacen('-', "\u{2212}", 1))
+}
+
 /// A duration in the unit a chemist would say it in: "3.2 ps", "45 s",
 /// "4.6 min", "2.2 h", "3.1 d", "12 years"; two or three significant figures.
 pub fn duration(seconds: f64) -> String {
@@ -99,6 +114,18 @@ mod tests {
         assert_eq!(scientific(12.345), "12.3");
         assert_eq!(scientific(3.1e-12), "3.10e-12");
         assert_eq!(scientific(0.0), "0");
+    }
+
+    #[test]
+    fn figures_write_powers_of_ten() {
+        // Same three figures as `scientific`; the exponent as a superscript.
+        assert_eq!(scientific_markup(2.09e-3), "2.09 × 10^-3");
+        assert_eq!(scientific_markup(290543.5), "2.91 × 10^5");
+        assert_eq!(scientific_markup(-3.1e-12), "\u{2212}3.10 × 10^-12");
+        assert_eq!(scientific_markup(0.5123), "0.512");
+        let runs = crate::layout::markup::parse(&scientific_markup(2.09e-3));
+        assert_eq!(crate::layout::rich::plain(&runs), "2.09 × 10\u{2212}3");
+        assert_eq!(runs.last().unwrap().script, crate::layout::Script::Super);
     }
 
     #[test]

@@ -11,7 +11,9 @@
 //! `EYRIE_RENDER_DUMP=dir` also writes every SVG into `dir` for viewing.
 
 use eyrie::figure::{FigureOptions, diagram_spec};
-use eyrie::layout::{Connector, Item, Rect, Role, Scene, Tag, layout, layout_report};
+use eyrie::layout::{
+    Connector, Item, Rect, Role, Scene, Tag, layout, layout_report, segment_hits_rect,
+};
 use eyrie::model::Model;
 use eyrie::render::to_svg;
 use std::path::Path;
@@ -137,11 +139,105 @@ fn no_text_overlaps_covers_a_bar_or_leaves_the_page_in_any_profile() {
     assert!(problems.is_empty(), "{problems:#?}");
 }
 
+/// Every profile and setting, and the profile with variants drawn over it
+/// (plain and annotated): the scenes the figure checks below look at.
+fn every_scene() -> Vec<(String, Scene, eyrie::layout::Crowding)> {
+    let mut out = Vec::new();
+    for (name, model) in profiles() {
+        for (setting, options) in settings() {
+            let (scene, crowding) = scene_at(&model, &options);
+            out.push((format!("{name}/{setting}"), scene, crowding));
+        }
+        if !model.variants().is_empty() {
+            let all: Vec<usize> = (0..model.variants().len()).collect();
+            for (setting, options) in [
+                ("variants", FigureOptions::default()),
+                ("variants-annotated", FigureOptions::annotated()),
+            ] {
+                let options = FigureOptions {
+                    variants: all.clone(),
+                    ..options
+                };
+                let (scene, crowding) = scene_at(&model, &options);
+                out.push((format!("{name}/{setting}"), scene, crowding));
+            }
+        }
+    }
+    out
+}
+
+/// An annotation's number must be read on its own: no connector crosses its
+/// text (the glyphs' ink, 0.25 mm inside the box), and no arrow or bracket
+/// passes through a bar on its way (variants' bars included), only at its
+/// two ends.
+#[test]
+fn annotation_texts_cross_no_connector_and_marks_cross_no_bar() {
+    let mut problems = Vec::new();
+    for (name, scene, _) in every_scene() {
+        let connectors = scene.strokes(Role::Connector);
+        for t in scene.texts().filter(|t| t.role == Role::AnnotationText) {
+            let ink = t.bbox().inflate(-0.25);
+            if connectors
+                .iter()
+                .any(|(a, b)| segment_hits_rect(*a, *b, &ink))
+            {
+                problems.push(format!("{name}: a connector crosses {:?}", t.plain_lines()));
+            }
+        }
+        let bars: Vec<Rect> = scene
+            .lines()
+            .filter(|l| l.role == Role::Bar)
+            .map(|l| bar_box(&l.points, l.width_pt))
+            .collect();
+        for l in scene.lines().filter(|l| l.role == Role::Annotation) {
+            for w in l.points.windows(2) {
+                let (a, b) = (w[0], w[1]);
+                if (a.0 - b.0).abs() > 1e-9 || (a.1 - b.1).abs() < 1.5 {
+                    continue; // only shafts (vertical strokes) run past bars
+                }
+                let (top, bottom) = (a.1.min(b.1) + 0.6, a.1.max(b.1) - 0.6);
+                if bars
+                    .iter()
+                    .any(|r| segment_hits_rect((a.0, top), (a.0, bottom), r))
+                {
+                    problems.push(format!(
+                        "{name}: an annotation mark at x = {:.1} crosses a bar",
+                        a.0
+                    ));
+                }
+            }
+        }
+    }
+    assert!(problems.is_empty(), "{problems:#?}");
+}
+
+/// Common practice: about 6 pt is the smallest type that stays legible at
+/// a figure's final size; a crowded figure leaves texts out (with a warning)
+/// rather than shrink below it.
+#[test]
+fn no_text_is_smaller_than_six_points() {
+    for (name, scene, _) in every_scene() {
+        for t in scene.texts() {
+            assert!(
+                t.size_pt >= 6.0 - 1e-9,
+                "{name}: {:?} is set in {:.2} pt",
+                t.plain_lines(),
+                t.size_pt
+            );
+        }
+    }
+}
+
 #[test]
 fn annotations_appear_where_the_analysis_has_them() {
     let all = profiles();
     let get = |n: &str| &all.iter().find(|(name, _)| name == n).unwrap().1;
-    let annotated = FigureOptions::annotated();
+    // At double width, where every annotation fits (a single column may
+    // leave some out, with a warning).
+    let annotated = FigureOptions {
+        preset: "article-wide".into(),
+        ..FigureOptions::annotated()
+    };
     let texts = |n: &str| -> Vec<String> {
         scene(get(n), &annotated)
             .texts()
@@ -164,6 +260,10 @@ fn annotations_appear_where_the_analysis_has_them() {
     let cyc = texts("hydrogenation-cycle");
     assert!(cyc.iter().any(|t| t.starts_with("δE = ")), "{cyc:?}");
     assert!(cyc.iter().any(|t| t.contains("TOF = ")), "{cyc:?}");
+    // Powers of ten as a reader writes them, not computer notation:
+    // 2.09e-3 s⁻¹ is set as 2.09 × 10⁻³ s⁻¹ (exponent in superscript runs).
+    assert!(cyc.iter().any(|t| t.contains("× 10−3 s−1")), "{cyc:?}");
+    assert!(!cyc.iter().any(|t| t.contains("e-")), "{cyc:?}");
     // The rate-determining states of the slowest path are highlighted.
     let s = scene(get("demo"), &annotated);
     assert_eq!(s.lines().filter(|l| l.role == Role::Highlight).count(), 2);
@@ -231,21 +331,44 @@ fn every_value_sits_on_its_bar_or_has_a_leader() {
     assert!(leaders_seen > 0);
 }
 
-/// Every profile but the 25-state one holds all its texts on a single
-/// column, plain and annotated; the 25-state one at single width leaves
-/// texts out and says that the double-column size helps, and at double
-/// width holds all its plain texts.
+/// Every profile but the 25-state one holds all its values and labels on a
+/// single column, plain and annotated, and all its plain texts; annotated, it
+/// may leave out an annotation, and then the warning names it and the
+/// double-column size. The 25-state one at single width leaves texts out
+/// and says that the double-column size helps, and at double width holds
+/// all its plain texts.
 #[test]
 fn a_crowded_page_leaves_text_out_only_with_a_warning_naming_the_remedy() {
     for (name, model) in profiles() {
         let dense = model.points().len() > 16;
+        let labelled = model
+            .points()
+            .iter()
+            .filter(|p| !p.label.trim().is_empty())
+            .count();
         for (setting, options) in settings() {
             let (scene, crowding) = scene_at(&model, &options);
             let warning = crowding.warning(&options.style().unwrap());
+            let annotated = !options.annotations.is_empty();
+            let count = |role: Role| scene.texts().filter(|t| t.role == role).count();
             if dense && (setting == "plain" || setting == "annotated") {
                 let w = warning.unwrap_or_else(|| panic!("{name}/{setting}: no warning"));
                 assert!(w.contains("--size double"), "{w}");
                 assert!(scene.texts().count() > 0);
+            } else if !dense && annotated {
+                assert_eq!(count(Role::Value), model.points().len(), "{name}/{setting}");
+                assert_eq!(count(Role::Label), labelled, "{name}/{setting}");
+                if let Some(w) = warning {
+                    let help = if setting == "annotated" {
+                        "--size double"
+                    } else {
+                        "fewer --annotate items"
+                    };
+                    assert!(w.contains(help), "{name}/{setting}: {w}");
+                    for t in &crowding.left_out {
+                        assert!(w.contains(t.as_str()) || w.contains("more"), "{w}");
+                    }
+                }
             } else if !dense || setting == "plain-double" {
                 assert_eq!(warning, None, "{name}/{setting}");
             }

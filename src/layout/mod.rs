@@ -23,7 +23,7 @@ mod vertical;
 pub use chart::{AxisScale, ChartSpec, Marker, Series, layout_chart};
 pub use connect::Connector;
 pub use overlay::Overlay;
-pub use place::ATTACH_MM;
+pub use place::{ATTACH_MM, segment_hits_rect};
 pub use scene::{
     Anchor, Colour, Curve, Item, Line, Rect, RichLine, Role, Run, Scene, Script, Tag, Text,
 };
@@ -132,9 +132,9 @@ pub struct DiagramSpec {
 /// and an empty spec gives an empty axis.
 ///
 /// When some text finds no free spot at the style's sizes, the whole figure
-/// is laid out again with smaller type, step by step down to the preset's
-/// `min_text_pt` (6 pt after the first steps for the 7 pt article type,
-/// 5 pt at most), so a crowded figure shrinks uniformly. A text that still
+/// is laid out again with smaller type, step by step down to
+/// [`smallest_pt`] (6 pt for the 7 pt article type), so a crowded figure
+/// shrinks uniformly. A text that still
 /// finds no free spot is left out rather than drawn over another; see
 /// [`layout_report`] for what was left out.
 pub fn layout(spec: &DiagramSpec, style: &Style) -> Scene {
@@ -188,30 +188,91 @@ impl Crowding {
 /// [`layout`], also telling what did not fit.
 pub fn layout_report(spec: &DiagramSpec, style: &Style) -> (Scene, Crowding) {
     let style = &style.with_hints(&spec.hints);
+    let floor = smallest_pt(style);
     let mut best: Option<(Scene, Crowding)> = None;
+    let mut tried: Vec<[f64; 3]> = Vec::new();
     for scale in [1.0, 0.93, 6.0 / 7.0, 0.79, 0.72] {
         let mut s = style.clone();
         for size in [&mut s.label_pt, &mut s.value_pt, &mut s.annotation_text_pt] {
-            *size = (*size * scale).max(style.min_text_pt.min(*size));
+            *size = (*size * scale).max(floor.min(*size));
         }
-        let (mut scene, mut fit) = build(spec, &s, 0.0);
-        if !fit.legend {
-            let strip = legend::strip_height(&legend::entries(&overlay::legend_spec(spec), &s), &s);
-            (scene, fit) = build(spec, &s, strip);
+        // Below the floor every further step is the same pass.
+        let sizes = [s.label_pt, s.value_pt, s.annotation_text_pt];
+        if tried.contains(&sizes) {
+            continue;
         }
-        if fit.left_out.is_empty() {
+        tried.push(sizes);
+        // Values and labels come first: while one of them finds no spot,
+        // the least important annotation gives up its room.
+        // If that does not help (a page too small even for its labels), all
+        // annotations stay.
+        let pass = |spec: &DiagramSpec| {
+            let (scene, fit) = build(spec, &s, 0.0);
+            if fit.legend {
+                return (scene, fit);
+            }
+            let entries = legend::entries(&overlay::legend_spec(spec), &s);
+            build(spec, &s, legend::strip_height(&entries, &s))
+        };
+        let (mut scene, mut fit) = pass(spec);
+        let mut left_out: Vec<String> = Vec::new();
+        if fit.points_left_out > 0 {
+            // Leave out annotations, least important first, until values and
+            // labels fit; then take back, most important first, each one
+            // that still lets them fit.
+            let with = |keep: &[bool]| DiagramSpec {
+                annotations: spec
+                    .annotations
+                    .iter()
+                    .zip(keep)
+                    .filter(|(_, k)| **k)
+                    .map(|(a, _)| a.clone())
+                    .collect(),
+                ..spec.clone()
+            };
+            let mut keep = vec![true; spec.annotations.len()];
+            let mut dropped = Vec::new();
+            let mut fitted = None;
+            while let Some(k) = least_important(&spec.annotations, &keep) {
+                keep[k] = false;
+                dropped.push(k);
+                let (sc, f) = pass(&with(&keep));
+                if f.points_left_out == 0 {
+                    fitted = Some((sc, f));
+                    break;
+                }
+            }
+            if let Some((mut sc, mut f)) = fitted {
+                for &k in dropped.iter().rev().skip(1) {
+                    keep[k] = true;
+                    let (sc2, f2) = pass(&with(&keep));
+                    if f2.points_left_out == 0 {
+                        (sc, f) = (sc2, f2);
+                    } else {
+                        keep[k] = false;
+                    }
+                }
+                left_out = (0..keep.len())
+                    .filter(|&k| !keep[k])
+                    .map(|k| plain_lines(spec.annotations[k].lines()))
+                    .collect();
+                (scene, fit) = (sc, f);
+            }
+        }
+        left_out.extend(fit.left_out);
+        if left_out.is_empty() {
             return (scene, Crowding::default());
         }
         // Keep the pass that left out least (the larger type on a tie).
         if best
             .as_ref()
-            .is_none_or(|(_, c)| fit.left_out.len() < c.left_out.len())
+            .is_none_or(|(_, c)| left_out.len() < c.left_out.len())
         {
             let annotated = !spec.annotations.is_empty();
             best = Some((
                 scene,
                 Crowding {
-                    left_out: fit.left_out,
+                    left_out,
                     annotated,
                 },
             ));
@@ -220,6 +281,42 @@ pub fn layout_report(spec: &DiagramSpec, style: &Style) -> (Scene, Crowding) {
     best.expect("at least one pass")
 }
 
+/// The kept annotation to leave out first: a barrier arrow (one per path, the
+/// most numerous) before the selectivity bracket before an energetic span,
+/// the later one first among equals.
+fn least_important(annotations: &[Annotation], keep: &[bool]) -> Option<usize> {
+    let rank = |a: &Annotation| match a {
+        Annotation::Barrier { .. } => 0,
+        Annotation::Difference { .. } => 1,
+        Annotation::Span { .. } => 2,
+    };
+    (0..annotations.len())
+        .rev()
+        .filter(|&i| keep[i])
+        .min_by_key(|&i| rank(&annotations[i]))
+}
+
+/// Markup lines as one plain string, for messages.
+fn plain_lines(lines: &[String]) -> String {
+    let plain: Vec<String> = lines
+        .iter()
+        .map(|l| rich::plain(&markup::parse(l)))
+        .collect();
+    plain.join(" ")
+}
+
+/// The smallest type a crowded figure may use, in pt: the preset's
+/// `min_text_pt`, but never below 6 pt. Smaller type at final size is hard
+/// to read, and shrinking a figure's type only moves its texts into its
+/// lines: the placement leaves the last-placed texts (annotations) out and
+/// the warning names a larger size instead.
+pub fn smallest_pt(style: &Style) -> f64 {
+    style.min_text_pt.max(MIN_LEGIBLE_PT)
+}
+
+/// See [`smallest_pt`].
+pub const MIN_LEGIBLE_PT: f64 = 6.0;
+
 /// Thickness of the band behind a highlighted bar, in bar thicknesses.
 const HIGHLIGHT: f64 = 2.2;
 
@@ -227,6 +324,8 @@ const HIGHLIGHT: f64 = 2.2;
 struct Fit {
     /// Texts that found no free spot (and were left out).
     left_out: Vec<String>,
+    /// How many of them are values or labels (not annotation texts).
+    points_left_out: usize,
     /// The legend (if needed) found a free spot.
     legend: bool,
 }
@@ -530,7 +629,7 @@ fn build(spec: &DiagramSpec, style: &Style, legend_strip: f64) -> (Scene, Fit) {
                 }
                 Connector::Smooth => {
                     let c = connect::smooth(from, to);
-                    segments.extend(connect::flatten(from, &c, 12));
+                    segments.extend(connect::flatten(from, &c, connect::CHORDS));
                     items.push(Item::Curve(Curve {
                         start: from,
                         segments: vec![c],
@@ -607,7 +706,15 @@ fn build(spec: &DiagramSpec, style: &Style, legend_strip: f64) -> (Scene, Fit) {
 
     // Annotation marks block text before any text is placed.
     let ids: Vec<String> = spec.points.iter().map(|p| p.id.clone()).collect();
+    let variant_bars: Vec<(f64, f64, f64)> = spec
+        .overlays
+        .iter()
+        .flat_map(|o| &o.changed)
+        .filter(|(i, v, _)| *i < n && drawable[*i] && v.is_finite())
+        .map(|&(i, v, _)| (x[i] - bar_w[i] / 2.0, x[i] + bar_w[i] / 2.0, y_of(v)))
+        .collect();
     let geometry = annotate::Geometry {
+        others: &variant_bars,
         x: &x,
         y: &y,
         bar_w: &bar_w,
@@ -618,12 +725,13 @@ fn build(spec: &DiagramSpec, style: &Style, legend_strip: f64) -> (Scene, Fit) {
     let mut marks = Vec::new();
     let mut annotation_items = Vec::new();
     for a in &spec.annotations {
-        if let Some(d) = annotate::draw(a, &geometry, style) {
-            for r in &d.hard {
-                placer.block(*r);
-            }
+        let alternatives = annotate::draw(a, &geometry, style);
+        // The preferred drawing keeps values and labels away; another one
+        // is tried when its text finds no clear spot.
+        if let Some(d) = alternatives.first() {
+            placer.blocked.extend(d.hard.iter().copied());
             placer.segments.extend(d.soft.iter().copied());
-            marks.push((a, d.mark, d.items));
+            marks.push((a, alternatives));
         }
     }
 
@@ -638,6 +746,7 @@ fn build(spec: &DiagramSpec, style: &Style, legend_strip: f64) -> (Scene, Fit) {
     let mut leaders = Vec::new();
     let mut placed_texts = Vec::new();
     let mut left_out = Vec::new();
+    let mut points_left_out = 0;
     let mut settle = |placer: &mut Placer,
                       cands: &[place::Candidate],
                       origin: (f64, f64),
@@ -646,17 +755,22 @@ fn build(spec: &DiagramSpec, style: &Style, legend_strip: f64) -> (Scene, Fit) {
                       tag: Option<Tag>| {
         // A leader may start anywhere along the bar but its last quarter.
         let reach = bar.map_or(0.0, |(x0, x1, _)| (x1 - x0) / 4.0);
-        let chosen = match placer.choose_from(cands, origin, reach) {
-            Some(c) => c,
+        // A text read across a line is easily misread: an annotation's
+        // number goes only where no connector, guide or leader crosses it;
+        // a value or label, too, if such a spot is near, else where it
+        // crosses fewest.
+        let found = match placer.choose_clear(cands, origin, reach) {
+            None if role != Role::AnnotationText => placer.choose_from(cands, origin, reach),
+            found => found,
+        };
+        let Some(chosen) = found else {
             // No free spot: left out (and reported) rather than drawn on
             // top of something.
-            None => {
-                if let Some(c) = cands.first() {
-                    let lines: Vec<String> = c.lines.iter().map(|l| rich::plain(l)).collect();
-                    left_out.push(lines.join(" "));
-                }
-                return false;
-            }
+            let lines: Vec<String> = cands
+                .first()
+                .map(|c| c.lines.iter().map(|l| rich::plain(l)).collect())
+                .unwrap_or_default();
+            return Err(lines.join(" "));
         };
         let r = chosen.bbox();
         placer.block(r);
@@ -693,7 +807,7 @@ fn build(spec: &DiagramSpec, style: &Style, legend_strip: f64) -> (Scene, Fit) {
             role,
             tag,
         }));
-        true
+        Ok(())
     };
     for (role, side) in [(Role::Value, Side::Above), (Role::Label, Side::Below)] {
         for &i in &by_x {
@@ -718,7 +832,7 @@ fn build(spec: &DiagramSpec, style: &Style, legend_strip: f64) -> (Scene, Fit) {
                 side,
                 text: &runs,
                 size_pt: size,
-                min_pt: style.min_text_pt.min(size),
+                min_pt: smallest_pt(style).min(size),
                 breakable: role == Role::Label,
             };
             let cands = place::candidates(&req);
@@ -727,7 +841,7 @@ fn build(spec: &DiagramSpec, style: &Style, legend_strip: f64) -> (Scene, Fit) {
                 Side::Below => (x[i], y[i] + half),
             };
             let bar = (x[i] - bar_w[i] / 2.0, x[i] + bar_w[i] / 2.0, y[i]);
-            let _ = settle(
+            let placed = settle(
                 &mut placer,
                 &cands,
                 origin,
@@ -735,6 +849,10 @@ fn build(spec: &DiagramSpec, style: &Style, legend_strip: f64) -> (Scene, Fit) {
                 role,
                 Some(Tag::Point(p.id.clone())),
             );
+            if let Err(text) = placed {
+                left_out.push(text);
+                points_left_out += 1;
+            }
         }
     }
     // Each variant's values beside its own bars, tagged with its name.
@@ -757,7 +875,7 @@ fn build(spec: &DiagramSpec, style: &Style, legend_strip: f64) -> (Scene, Fit) {
                 side,
                 text: &runs,
                 size_pt: style.value_pt,
-                min_pt: style.min_text_pt.min(style.value_pt),
+                min_pt: smallest_pt(style).min(style.value_pt),
                 breakable: false,
             };
             let origin = match side {
@@ -766,7 +884,7 @@ fn build(spec: &DiagramSpec, style: &Style, legend_strip: f64) -> (Scene, Fit) {
             };
             let bar = (vx - bar_w[*i] / 2.0, vx + bar_w[*i] / 2.0, vy);
             let tag = Some(Tag::Path(o.name.clone()));
-            let _ = settle(
+            let placed = settle(
                 &mut placer,
                 &place::candidates(&req),
                 origin,
@@ -774,24 +892,57 @@ fn build(spec: &DiagramSpec, style: &Style, legend_strip: f64) -> (Scene, Fit) {
                 Role::Value,
                 tag,
             );
+            if let Err(text) = placed {
+                left_out.push(text);
+                points_left_out += 1;
+            }
         }
     }
-    for (a, (mx, top, bottom), drawing) in marks {
+    for (a, alternatives) in marks {
         let lines: Vec<RichLine> = a.lines().iter().map(|l| markup::parse(l)).collect();
-        let cands = place::beside(mx, top, bottom, &lines, style.annotation_text_pt);
-        let origin = (mx, (top + bottom) / 2.0);
-        let empty = lines.iter().all(|l| rich::plain(l).trim().is_empty());
-        if empty
-            || settle(
-                &mut placer,
-                &cands,
-                origin,
-                None,
-                Role::AnnotationText,
-                None,
-            )
-        {
-            annotation_items.extend(drawing);
+        if lines.iter().all(|l| rich::plain(l).trim().is_empty()) {
+            annotation_items.extend(alternatives[0].items.iter().cloned());
+            continue;
+        }
+        // Each drawing on its own: the preferred one's obstacles go, and an
+        // alternative must cross no placed text or bar.
+        let first = &alternatives[0];
+        placer.blocked.retain(|r| !first.hard.contains(r));
+        placer.segments.retain(|s| !first.soft.contains(s));
+        let mut shown = None;
+        for (k, d) in alternatives.iter().enumerate() {
+            if k > 0 && !annotate::clear_of(d, &placer.blocked) {
+                continue;
+            }
+            let (nb, ns) = (placer.blocked.len(), placer.segments.len());
+            placer.blocked.extend(d.hard.iter().copied());
+            placer.segments.extend(d.soft.iter().copied());
+            let (mx, top, bottom) = d.mark;
+            let cands = place::beside(mx, top, bottom, &lines, style.annotation_text_pt);
+            let origin = (mx, (top + bottom) / 2.0);
+            if placer.choose_clear(&cands, origin, 0.0).is_some() {
+                shown = Some((d, cands, origin));
+                break;
+            }
+            placer.blocked.truncate(nb);
+            placer.segments.truncate(ns);
+        }
+        match shown {
+            // The spot just found is chosen again (same state, same choice).
+            Some((d, cands, origin))
+                if settle(
+                    &mut placer,
+                    &cands,
+                    origin,
+                    None,
+                    Role::AnnotationText,
+                    None,
+                )
+                .is_ok() =>
+            {
+                annotation_items.extend(d.items.iter().cloned());
+            }
+            _ => left_out.push(plain_lines(a.lines())),
         }
     }
 
@@ -833,6 +984,7 @@ fn build(spec: &DiagramSpec, style: &Style, legend_strip: f64) -> (Scene, Fit) {
         },
         Fit {
             left_out,
+            points_left_out,
             legend: legend_ok,
         },
     )

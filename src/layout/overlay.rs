@@ -165,7 +165,9 @@ fn connector(
         }
         Connector::Smooth => {
             let c = connect::smooth(from, to);
-            placer.segments.extend(connect::flatten(from, &c, 12));
+            placer
+                .segments
+                .extend(connect::flatten(from, &c, connect::CHORDS));
             Item::Curve(Curve {
                 start: from,
                 segments: vec![c],

@@ -108,6 +108,29 @@ impl Placer {
         origin: (f64, f64),
         reach: f64,
     ) -> Option<Candidate> {
+        self.choose(candidates, origin, reach, false)
+    }
+
+    /// [`Placer::choose_from`] for a text that must not cover any segment
+    /// (an annotation's number read across a connector is easily misread):
+    /// a crossing rules a spot out instead of adding a penalty, and the
+    /// search with a leader goes no farther than [`CLEAR_RING_RADIUS`].
+    pub fn choose_clear(
+        &self,
+        candidates: &[Candidate],
+        origin: (f64, f64),
+        reach: f64,
+    ) -> Option<Candidate> {
+        self.choose(candidates, origin, reach, true)
+    }
+
+    fn choose(
+        &self,
+        candidates: &[Candidate],
+        origin: (f64, f64),
+        reach: f64,
+        clear: bool,
+    ) -> Option<Candidate> {
         // Total cost of a text at box `r`, or `None` where it may not go.
         let cost_at = |r: &Rect, needs_leader: bool, cost: f64| -> Option<f64> {
             if !self.fits(r) {
@@ -127,7 +150,11 @@ impl Placer {
                     return None;
                 }
             }
-            Some(cost + CROSSING_COST * self.crossings(r) as f64)
+            let crossings = self.crossings(r);
+            if clear && crossings > 0 {
+                return None;
+            }
+            Some(cost + CROSSING_COST * crossings as f64)
         };
         // Measuring text is the slow part: candidates differ mostly by
         // position, so each setting is measured once and shifted.
@@ -174,7 +201,7 @@ impl Placer {
         let shape = rich::block_box(0.0, 0.0, &narrowest.lines, size, Anchor::Middle, 0.0);
         for &(dx, dy, d) in ring_offsets() {
             let cost = d + extra;
-            if best.as_ref().is_some_and(|(b, _)| cost >= *b) {
+            if best.as_ref().is_some_and(|(b, _)| cost >= *b) || (clear && d > CLEAR_RING_COST) {
                 break;
             }
             let (x, y) = (origin.0 + dx, origin.1 + dy + dy0);
@@ -296,6 +323,13 @@ const FAR_AWAY: f64 = 8.0;
 /// How far (mm) a text may be moved from its bar, with a leader line;
 /// farther, it no longer reads as belonging to its bar.
 const RING_RADIUS: f64 = 12.0;
+/// How far (mm) a text that must stay clear of lines may move from its mark,
+/// with a leader: an annotation's number much farther than this reads as
+/// belonging to something else, so it is left out instead.
+const CLEAR_RING_RADIUS: f64 = RING_RADIUS;
+/// The ring cost of a spot at [`CLEAR_RING_RADIUS`] (ring costs grow with
+/// the distance and are sorted, so the search stops there).
+const CLEAR_RING_COST: f64 = FAR_AWAY + CLEAR_RING_RADIUS;
 /// The last resort before a text is left out: anywhere this near, at a
 /// cost that puts it after every nearer spot.
 const LAST_RESORT_RADIUS: f64 = 32.0;
@@ -400,38 +434,117 @@ fn ring_offsets() -> &'static [(f64, f64, f64)] {
 
 /// Candidates for a text block beside a vertical mark (an arrow or bracket)
 /// from `y_top` to `y_bottom` at `x`: right of it first, then left, centred
-/// on the mark's middle and sliding along it ([`Placer::choose_from`] adds
-/// the far-away ring).
+/// on the mark's middle and sliding along it; then the same with each
+/// "name = value" line broken after the "=" (narrower, to fit between
+/// connectors). [`Placer::choose_from`] adds the far-away ring.
 pub fn beside(x: f64, y_top: f64, y_bottom: f64, lines: &[RichLine], size: f64) -> Vec<Candidate> {
     let em = size * text::PT_MM;
-    let n = lines.len().max(1) as f64;
-    // Baseline of the first line that centres the block on height `yc`.
-    let block_h = (n - 1.0) * text::LINE_HEIGHT * em;
-    let first_baseline = |yc: f64| yc - block_h / 2.0 + (text::ASCENT - text::DESCENT) * em / 2.0;
-    let gap = 0.6;
+    // Whole, then the widest line broken, then every line.
+    let mut settings = vec![lines.to_vec()];
+    let widest = (0..lines.len()).max_by(|&a, &b| {
+        rich::width_mm(&lines[a], size).total_cmp(&rich::width_mm(&lines[b], size))
+    });
+    let mut one = Vec::new();
+    for (i, l) in lines.iter().enumerate() {
+        if Some(i) == widest {
+            one.extend(break_after_equals(l));
+        } else {
+            one.push(l.clone());
+        }
+    }
+    let all: Vec<RichLine> = lines.iter().flat_map(break_after_equals).collect();
+    for set in [one, all] {
+        if !settings.contains(&set) {
+            settings.push(set);
+        }
+    }
+    // Clear of the mark's blocked box (half its 0.9 mm) and the clearance.
+    let gap = 0.45 + CLEARANCE + 0.1;
     let len = (y_bottom - y_top).abs();
     let mut out: Vec<(f64, Candidate)> = Vec::new();
-    for (side, anchor, dx) in [(0.0, Anchor::Start, gap), (OTHER_SIDE, Anchor::End, -gap)] {
-        for f in [0.5, 0.4, 0.6, 0.3, 0.7, 0.2, 0.8, 0.1, 0.9, 0.0, 1.0] {
-            let yc = y_top + f * (y_bottom - y_top);
-            out.push((
-                side + (f - 0.5f64).abs() * len,
-                Candidate {
-                    x: x + dx,
-                    y: first_baseline(yc),
-                    lines: lines.to_vec(),
-                    size_pt: size,
-                    anchor,
-                    leader: false,
-                    cost: 0.0,
-                },
-            ));
+    for (extra, set) in settings.iter().enumerate() {
+        let n = set.len().max(1) as f64;
+        // Baseline of the first line that centres the block on height `yc`.
+        let block_h = (n - 1.0) * text::LINE_HEIGHT * em;
+        let first_baseline =
+            |yc: f64| yc - block_h / 2.0 + (text::ASCENT - text::DESCENT) * em / 2.0;
+        for (side, anchor, dx) in [(0.0, Anchor::Start, gap), (OTHER_SIDE, Anchor::End, -gap)] {
+            for f in [0.5, 0.4, 0.6, 0.3, 0.7, 0.2, 0.8, 0.1, 0.9, 0.0, 1.0] {
+                let yc = y_top + f * (y_bottom - y_top);
+                out.push((
+                    side + (f - 0.5f64).abs() * len + extra as f64 * EXTRA_LINE,
+                    Candidate {
+                        x: x + dx,
+                        y: first_baseline(yc),
+                        lines: set.clone(),
+                        size_pt: size,
+                        anchor,
+                        leader: false,
+                        cost: 0.0,
+                    },
+                ));
+            }
+        }
+        // Under the mark's foot or over its head, where the connectors
+        // beside it often leave no room.
+        let below = y_bottom.max(y_top) + gap + text::ASCENT * em;
+        let above = y_top.min(y_bottom) - gap - text::DESCENT * em - block_h;
+        for (end, y) in [(END_COST, below), (END_COST + 0.5, above)] {
+            for (anchor, dx) in [
+                (Anchor::Middle, 0.0f64),
+                (Anchor::End, 1.5),
+                (Anchor::Start, -1.5),
+            ] {
+                out.push((
+                    end + dx.abs() + extra as f64 * EXTRA_LINE,
+                    Candidate {
+                        x: x + dx,
+                        y,
+                        lines: set.clone(),
+                        size_pt: size,
+                        anchor,
+                        leader: false,
+                        cost: 0.0,
+                    },
+                ));
+            }
         }
     }
     out.sort_by(|a, b| a.0.total_cmp(&b.0));
     out.into_iter()
         .map(|(cost, c)| Candidate { cost, ..c })
         .collect()
+}
+
+/// Cost of a text under or over its mark instead of beside it.
+const END_COST: f64 = 4.0;
+
+/// `line` broken after its first "= " ("ΔG‡ =" / "20.0"), or kept whole.
+fn break_after_equals(line: &RichLine) -> Vec<RichLine> {
+    for (i, run) in line.iter().enumerate() {
+        if let Some(at) = run.text.find("= ") {
+            let mut head: RichLine = line[..i].to_vec();
+            let mut tail: RichLine = Vec::new();
+            let (a, b) = run.text.split_at(at + 1);
+            head.push(Run {
+                text: a.to_string(),
+                ..run.clone()
+            });
+            let rest = b.trim_start();
+            if !rest.is_empty() {
+                tail.push(Run {
+                    text: rest.to_string(),
+                    ..run.clone()
+                });
+            }
+            tail.extend(line[i + 1..].iter().cloned());
+            if tail.is_empty() {
+                break;
+            }
+            return vec![head, tail];
+        }
+    }
+    vec![line.clone()]
 }
 
 /// The ways `req`'s text may be set at `size`: one line, or its breaks.

@@ -321,6 +321,29 @@ impl Scene {
         })
     }
 
+    /// The straight pieces of every line and curve drawn in `role` (curves
+    /// as the placement sees them, [`super::connect::CHORDS`] chords each),
+    /// for checks that texts keep clear of them.
+    pub fn strokes(&self, role: Role) -> Vec<((f64, f64), (f64, f64))> {
+        let mut out = Vec::new();
+        for item in &self.items {
+            match item {
+                Item::Line(l) if l.role == role => {
+                    out.extend(l.points.windows(2).map(|w| (w[0], w[1])));
+                }
+                Item::Curve(c) if c.role == role => {
+                    let mut from = c.start;
+                    for seg in &c.segments {
+                        out.extend(super::connect::flatten(from, seg, super::connect::CHORDS));
+                        from = seg[2];
+                    }
+                }
+                _ => {}
+            }
+        }
+        out
+    }
+
     /// The estimated bounding box of every text, in drawing order, so tests
     /// (and later stages) can check that no two texts overlap.
     pub fn text_boxes(&self) -> Vec<Rect> {
