@@ -69,13 +69,13 @@ print()
 print("Ratios of the fastest runs (best of N: least disturbed by other work on the")
 print("machine) and of the medians, against the fastest scipy method at each size.")
 print()
-print("| states | eyrie best s | median s | steps | fastest scipy | best s | median s | scipy/eyrie best | median |")
-print("|---|---|---|---|---|---|---|---|---|")
+print("| states | eyrie best s | median s | steps | LU | fastest scipy | best s | median s | steps | LU | scipy/eyrie best | median |")
+print("|---|---|---|---|---|---|---|---|---|---|---|---|")
 for n in sorted(eyrie):
     e = eyrie[n]
     best = min(scipy[n], key=lambda d: d["best_seconds"])
-    print(f"| {n} | {e['best_seconds']:.3g} | {e['seconds']:.3g} | {e['steps']} | {best['method']} "
-          f"| {best['best_seconds']:.3g} | {best['seconds']:.3g} "
+    print(f"| {n} | {e['best_seconds']:.3g} | {e['seconds']:.3g} | {e['steps']} | {e['nlu']} | {best['method']} "
+          f"| {best['best_seconds']:.3g} | {best['seconds']:.3g} | {best['steps']} | {best['nlu']} "
           f"| {best['best_seconds'] / e['best_seconds']:.1f} | {best['seconds'] / e['seconds']:.1f} |")
 xs = [math.log(n) for n in sorted(eyrie)]
 for label, ys in [("time", [math.log(eyrie[n]["best_seconds"]) for n in sorted(eyrie)]),

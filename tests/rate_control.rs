@@ -306,3 +306,48 @@ fn rate_control_on_request_for_a_profile_without_a_cycle() {
     );
     assert!(text.contains("the sum rules hold"), "{text}");
 }
+
+#[test]
+fn pre_equilibrium_with_a_consumed_coreactant() {
+    // Closed-form derivation: A + W ⇌ I (fast, consumes W), I → P (slow).
+    // At 50 % conversion of the pool [A] + [I] from [A]₀ = 1 M, [W]₀ = w₀:
+    // [A] + [I] = α = 1/2 and [W] = β − [I] with β = w₀ − 1/2 (W is bound
+    // in I and spent in P = 1/2). The pre-equilibrium [I] = K(α − [I])(β − [I]),
+    // K = e^(−(G_I − G_A)/RT) per mol/L (1 mol/L standard state), fixes [I];
+    // r = k₂[I]. Differentiating the quadratic, g = ∂ln[I]/∂ln K =
+    // 1/(1 + K(α + β − 2[I])). Lowering I by δ multiplies K by e^δ and k₂ by
+    // e^−δ; lowering A divides K by e^δ; so X(ts2) = 1, X(ts1) = 0,
+    // X(I) = g − 1, X(A) = −g (states sum to −1). k₁ ≈ 1e9 s⁻¹ against
+    // k₂ ≈ 0.4 s⁻¹: the pre-equilibrium holds to about 1e-9.
+    let w0 = 2.0;
+    let m = model(&format!(
+        "unit = \"kcal/mol\"\ntemperature = 298.15\nzero = \"a\"\n[coreactants]\nW = {w0:?}\n\
+         [states]\na = {{ g = 0.0, with = [\"W\"] }}\ni = 1.0\np = {{ g = -30.0, product = true }}\n\
+         [ts]\nts1 = 5.0\nts2 = 19.0\n\
+         [[path]]\nvia = [\"a\", \"ts1\", \"i\", \"ts2\", \"p\"]\n"
+    ));
+    let rc = rate_control(&m, &Options::default()).unwrap();
+    // RT at 298.15 K in kcal/mol (CODATA 2018 R, thermochemical calorie).
+    let rt: f64 = 8.314462618 * 298.15 / 4184.0;
+    let k = (-1.0 / rt).exp();
+    let (alpha, beta) = (0.5, w0 - 0.5);
+    let b = k * (alpha + beta) + 1.0;
+    let i = (b - (b * b - 4.0 * k * k * alpha * beta).sqrt()) / (2.0 * k);
+    let g = 1.0 / (1.0 + k * (alpha + beta - 2.0 * i));
+    assert!((x(&m, &rc.degrees, "ts2") - 1.0).abs() < 1e-6);
+    assert!(x(&m, &rc.degrees, "ts1").abs() < 1e-6);
+    assert!(
+        (x(&m, &rc.degrees, "i") - (g - 1.0)).abs() < 1e-6,
+        "{:?}",
+        rc.degrees
+    );
+    assert!(
+        (x(&m, &rc.degrees, "a") + g).abs() < 1e-6,
+        "{:?}",
+        rc.degrees
+    );
+    // Unlike the first-order pre-equilibrium (X(A) = −1/(1 + K) ≈ −0.84
+    // here), the co-reactant's depletion moves the share.
+    assert!((g - 1.0 / (1.0 + k)).abs() > 0.05);
+    assert_sum_rule(&rc);
+}
