@@ -15,8 +15,14 @@
 
 /// Column (possibly fractional) of every point; `None` for points on no
 /// path. `paths` holds indices below `n`; `pins[i]`, when given, is the
-/// column of point `i` (missing entries mean no pin).
-pub fn assign(n: usize, paths: &[Vec<usize>], pins: &[Option<usize>]) -> Vec<Option<f64>> {
+/// column of point `i` (missing entries mean no pin). `clash(a, b)` tells
+/// whether points `a` and `b` in one column would crowd each other's texts.
+pub fn assign(
+    n: usize,
+    paths: &[Vec<usize>],
+    pins: &[Option<usize>],
+    clash: &dyn Fn(usize, usize) -> bool,
+) -> Vec<Option<f64>> {
     let mut on = vec![false; n];
     let mut succ: Vec<Vec<usize>> = vec![Vec::new(); n];
     let mut pred: Vec<Vec<usize>> = vec![Vec::new(); n];
@@ -58,10 +64,29 @@ pub fn assign(n: usize, paths: &[Vec<usize>], pins: &[Option<usize>]) -> Vec<Opt
             last[comp[v]] = last[comp[v]].max(col[v]);
         }
     }
-    for v in 0..n {
-        if on[v] && succ[v].is_empty() && !pred[v].is_empty() && pin(v).is_none() {
-            col[v] = last[comp[v]];
+    // Sinks whose texts would stack into each other in that column (near
+    // energies) step one column further right each, so product ends read
+    // as a staircase instead of crowding one column. The sink of the
+    // longest path keeps the last column; others follow by earliest column.
+    let mut sinks: Vec<usize> = (0..n)
+        .filter(|&v| on[v] && succ[v].is_empty() && !pred[v].is_empty() && pin(v).is_none())
+        .collect();
+    sinks.sort_by(|&a, &b| col[b].total_cmp(&col[a]).then(a.cmp(&b)));
+    let mut placed: Vec<usize> = Vec::new();
+    // A stepped end keeps its branch where it was: only its last connector
+    // grows (spreading the branch would crowd the middle of the figure).
+    let mut aligned = col.clone();
+    for v in sinks {
+        let mut c = last[comp[v]];
+        while placed
+            .iter()
+            .any(|&w| comp[w] == comp[v] && col[w] == c && clash(v, w))
+        {
+            c += 1.0;
         }
+        aligned[v] = last[comp[v]];
+        col[v] = c;
+        placed.push(v);
     }
     // A pin at the far left with points before it would push them off the
     // page: move everything right instead (the profile refuses this case).
@@ -84,7 +109,7 @@ pub fn assign(n: usize, paths: &[Vec<usize>], pins: &[Option<usize>]) -> Vec<Opt
             run.push(w);
             w = succ[w][0];
         }
-        let (a, b) = (col[start] - least, col[w] - least);
+        let (a, b) = (col[start] - least, aligned[w] - least);
         let k = run.len() as f64 + 1.0;
         for (i, &r) in run.iter().enumerate() {
             out[r] = Some(a + (b - a) * (i as f64 + 1.0) / k);
@@ -233,7 +258,7 @@ mod tests {
 
     fn cols(n: usize, paths: &[&[usize]]) -> Vec<Option<f64>> {
         let paths: Vec<Vec<usize>> = paths.iter().map(|p| p.to_vec()).collect();
-        assign(n, &paths, &[])
+        assign(n, &paths, &[], &|_, _| false)
     }
 
     fn pinned(n: usize, paths: &[&[usize]], pins: &[(usize, usize)]) -> Vec<f64> {
@@ -242,7 +267,7 @@ mod tests {
         for &(i, c) in pins {
             p[i] = Some(c);
         }
-        assign(n, &paths, &p)
+        assign(n, &paths, &p, &|_, _| false)
             .into_iter()
             .map(Option::unwrap)
             .collect()
@@ -306,6 +331,25 @@ mod tests {
         assert_eq!(c[6], Some(4.0));
         assert_eq!(c[4], Some(4.0)); // pa pushed right
         assert_eq!(c[3], Some(2.0)); // ts-a centred between 0 and 4
+    }
+
+    #[test]
+    fn product_ends_that_would_crowd_step_right() {
+        // start → ts → branch point, then three branches ending in products
+        // 5, 7, 9 (9 on the longest branch); 5 and 9 crowd, 7 does not.
+        let paths: Vec<Vec<usize>> =
+            vec![vec![0, 1, 2, 3, 4, 5], vec![2, 6, 7], vec![2, 8, 10, 11, 9]];
+        let crowd = |a: usize, b: usize| matches!((a.min(b), a.max(b)), (5, 9));
+        let c: Vec<f64> = assign(12, &paths, &[], &crowd)
+            .into_iter()
+            .map(Option::unwrap)
+            .collect();
+        assert_eq!(c[9], 6.0); // the longest branch's end keeps the last column
+        assert_eq!(c[7], 6.0); // no crowding: aligned
+        assert_eq!(c[5], 7.0); // one step right
+        // Without crowding every end is aligned (as before).
+        let c = assign(12, &paths, &[], &|_, _| false);
+        assert_eq!((c[5], c[7], c[9]), (Some(6.0), Some(6.0), Some(6.0)));
     }
 
     #[test]
