@@ -211,6 +211,78 @@ fn annotation_texts_cross_no_connector_and_marks_cross_no_bar() {
     assert!(problems.is_empty(), "{problems:#?}");
 }
 
+/// Product ends (states no path leaves) line up in the last column unless
+/// their energies are so close that their values and labels would crowd
+/// one column; then they step right, so no two ends share a column within
+/// a value and a label's height (about 5 mm at 7 pt). Neighbouring texts on
+/// one line keep more than a word space apart (1.5 mm), or two labels read
+/// as one.
+#[test]
+fn product_ends_and_neighbouring_texts_keep_apart() {
+    let mut problems = Vec::new();
+    for (name, model) in profiles() {
+        let ids: Vec<&str> = model.points().iter().map(|p| p.id.as_str()).collect();
+        let ends: Vec<&str> = (0..ids.len())
+            .filter(|&i| {
+                let last = model.paths().iter().any(|p| p.via.last() == Some(&i));
+                let left = model
+                    .paths()
+                    .iter()
+                    .any(|p| p.via.iter().rev().skip(1).any(|&v| v == i));
+                last && !left
+            })
+            .map(|i| ids[i])
+            .collect();
+        // (The 25-state profile needs the double width; see `scene`.)
+        for (setting, options) in [settings()[0].clone(), settings()[2].clone()] {
+            if model.points().len() > 16 && setting == "plain" {
+                continue;
+            }
+            let (scene, _) = scene_at(&model, &options);
+            let bars: Vec<(&str, Rect)> = scene
+                .lines()
+                .filter(|l| l.role == Role::Bar)
+                .filter_map(|l| match &l.tag {
+                    Some(Tag::Point(id)) if ends.contains(&id.as_str()) => {
+                        Some((id.as_str(), bar_box(&l.points, l.width_pt)))
+                    }
+                    _ => None,
+                })
+                .collect();
+            for (i, (a, ra)) in bars.iter().enumerate() {
+                for (b, rb) in &bars[i + 1..] {
+                    // Side-by-side slots of one column count as one column.
+                    let centre = |r: &Rect| (r.x0 + r.x1) / 2.0;
+                    let longer = (ra.x1 - ra.x0).max(rb.x1 - rb.x0);
+                    let same_column = (centre(ra) - centre(rb)).abs() < longer + 2.0;
+                    if same_column && (ra.y0 - rb.y0).abs() < 5.0 {
+                        problems.push(format!(
+                            "{name}/{setting}: ends {a} and {b} crowd one column"
+                        ));
+                    }
+                }
+            }
+            let placed: Vec<_> = scene
+                .texts()
+                .filter(|t| matches!(t.role, Role::Value | Role::Label | Role::AnnotationText))
+                .map(|t| (t.plain_lines(), t.bbox()))
+                .collect();
+            for (i, (ta, a)) in placed.iter().enumerate() {
+                for (tb, b) in &placed[i + 1..] {
+                    let level = a.y0 < b.y1 && b.y0 < a.y1;
+                    let gap = (b.x0 - a.x1).max(a.x0 - b.x1);
+                    if level && gap < 1.5 - 1e-9 {
+                        problems.push(format!(
+                            "{name}/{setting}: {ta:?} and {tb:?} {gap:.2} mm apart"
+                        ));
+                    }
+                }
+            }
+        }
+    }
+    assert!(problems.is_empty(), "{problems:#?}");
+}
+
 /// Common practice: about 6 pt is the smallest type that stays legible at
 /// a figure's final size; a crowded figure leaves texts out (with a warning)
 /// rather than shrink below it.
