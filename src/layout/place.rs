@@ -146,7 +146,14 @@ impl Placer {
                         y1: origin.1,
                     }) && segment_hits_rect(origin, to, b)
                 });
-                if cuts {
+                // A clear text's leader crosses no line either: a reader
+                // follows it to the wrong owner.
+                let crosses = clear
+                    && self
+                        .segments
+                        .iter()
+                        .any(|&(a, b)| segments_cross(origin, to, a, b));
+                if cuts || crosses {
                     return None;
                 }
             }
@@ -250,6 +257,17 @@ pub fn leader(origin: (f64, f64), reach: f64, r: &Rect) -> ((f64, f64), (f64, f6
     let centre = (r.x0 + r.x1) / 2.0;
     let from = (centre.clamp(origin.0 - reach, origin.0 + reach), origin.1);
     (from, r.nearest(from.0, from.1))
+}
+
+/// True when segments p–q and a–b cross (proper intersection; touching
+/// ends do not count, so a leader may start where a connector ends).
+fn segments_cross(p: (f64, f64), q: (f64, f64), a: (f64, f64), b: (f64, f64)) -> bool {
+    let side = |o: (f64, f64), u: (f64, f64), v: (f64, f64)| {
+        (u.0 - o.0) * (v.1 - o.1) - (u.1 - o.1) * (v.0 - o.0)
+    };
+    let (d1, d2) = (side(a, b, p), side(a, b, q));
+    let (d3, d4) = (side(p, q, a), side(p, q, b));
+    d1 * d2 < 0.0 && d3 * d4 < 0.0
 }
 
 /// True when the segment a–b passes through the interior of `r`
@@ -645,6 +663,30 @@ mod tests {
             y1: 65.0,
         });
         assert!(p.choose_at(&candidates(&req("x", Side::Above))).is_none());
+    }
+
+    #[test]
+    fn segments_cross_only_properly() {
+        // Closed form: the diagonals of a square cross at its centre.
+        assert!(segments_cross(
+            (0.0, 0.0),
+            (2.0, 2.0),
+            (0.0, 2.0),
+            (2.0, 0.0)
+        ));
+        assert!(!segments_cross(
+            (0.0, 0.0),
+            (1.0, 1.0),
+            (0.0, 2.0),
+            (2.0, 2.0)
+        ));
+        // Meeting at an end point is not a crossing.
+        assert!(!segments_cross(
+            (0.0, 0.0),
+            (1.0, 1.0),
+            (1.0, 1.0),
+            (2.0, 0.0)
+        ));
     }
 
     #[test]
