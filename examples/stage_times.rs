@@ -31,8 +31,9 @@ fn median_us<T>(runs: usize, mut f: impl FnMut() -> T) -> f64 {
 /// The bundled faces only, as the renderer loads them.
 fn fonts() -> Arc<usvg::fontdb::Database> {
     let mut db = usvg::fontdb::Database::new();
-    db.load_font_data(eyrie::font::REGULAR.to_vec());
-    db.load_font_data(eyrie::font::ITALIC.to_vec());
+    for face in [eyrie::font::REGULAR, eyrie::font::ITALIC] {
+        db.load_font_source(usvg::fontdb::Source::Binary(Arc::new(face)));
+    }
     db.set_sans_serif_family(eyrie::font::FAMILY);
     Arc::new(db)
 }

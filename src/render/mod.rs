@@ -44,4 +44,8 @@ impl RenderError {
     fn png(e: ::png::EncodingError) -> Self {
         RenderError::Png(e.to_string())
     }
+
+    fn io(e: std::io::Error) -> Self {
+        RenderError::Png(e.to_string())
+    }
 }
