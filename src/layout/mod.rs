@@ -666,6 +666,7 @@ fn build(spec: &DiagramSpec, style: &Style, legend_strip: f64) -> (Scene, Fit) {
         },
         blocked: fixed_texts.iter().map(Text::bbox).collect(),
         segments,
+        leaders: Vec::new(),
     };
     let mut bars = Vec::new();
     for i in 0..n {
@@ -769,18 +770,42 @@ fn build(spec: &DiagramSpec, style: &Style, legend_strip: f64) -> (Scene, Fit) {
         // number goes only where no connector, guide or leader crosses it;
         // a value or label, too, if such a spot is near, else where it
         // crosses fewest.
-        let found = match placer.choose_clear(cands, origin, reach) {
-            None if role != Role::AnnotationText => placer.choose_from(cands, origin, reach),
-            found => found,
-        };
-        let Some(chosen) = found else {
-            // No free spot: left out (and reported) rather than drawn on
-            // top of something.
-            let lines: Vec<String> = cands
-                .first()
-                .map(|c| c.lines.iter().map(|l| rich::plain(l)).collect())
-                .unwrap_or_default();
-            return Err(lines.join(" "));
+        let own: Vec<Rect> = placed_texts
+            .iter()
+            .filter_map(|t| match t {
+                Item::Text(t) if t.tag.is_some() && t.tag == tag => Some(t.bbox()),
+                _ => None,
+            })
+            .collect();
+        // A near spot that does not read as attached to its bar gets a
+        // leader; one whose leader would cut through a bar or text is
+        // dropped from the list and the choice made again.
+        let mut pool: Option<Vec<place::Candidate>> = None;
+        let chosen = loop {
+            let list = pool.as_deref().unwrap_or(cands);
+            let found = match placer.choose_clear(list, origin, reach) {
+                None if role != Role::AnnotationText => placer.choose_from(list, origin, reach),
+                found => found,
+            };
+            let Some(c) = found else {
+                // No free spot: left out (and reported) rather than drawn
+                // on top of something.
+                let lines: Vec<String> = cands
+                    .first()
+                    .map(|c| c.lines.iter().map(|l| rich::plain(l)).collect())
+                    .unwrap_or_default();
+                return Err(lines.join(" "));
+            };
+            let r = c.bbox();
+            let strays = bar.is_some_and(|b| !place::attached(&r, b, &own));
+            if !c.leader && strays {
+                let (from, to) = place::leader(origin, reach, &r);
+                if placer.leader_cuts(from, to) {
+                    pool = Some(list.iter().filter(|x| **x != c).cloned().collect());
+                    continue;
+                }
+            }
+            break c;
         };
         let r = chosen.bbox();
         // Side by side, two texts need more than a word space between them
@@ -792,17 +817,11 @@ fn build(spec: &DiagramSpec, style: &Style, legend_strip: f64) -> (Scene, Fit) {
         });
         // A text that no longer sits right over (or under) its bar gets a
         // leader line back to its owner.
-        let own: Vec<Rect> = placed_texts
-            .iter()
-            .filter_map(|t| match t {
-                Item::Text(t) if t.tag.is_some() && t.tag == tag => Some(t.bbox()),
-                _ => None,
-            })
-            .collect();
         let strays = bar.is_some_and(|b| !place::attached(&r, b, &own));
         if chosen.leader || strays {
             let (origin, to) = place::leader(origin, reach, &r);
             placer.segments.push((origin, to));
+            placer.leaders.push((origin, to));
             leaders.push(Item::Line(Line {
                 points: vec![origin, to],
                 colour: style.leader,

@@ -73,6 +73,9 @@ pub struct Placer {
     pub blocked: Vec<Rect>,
     /// Segments a text should preferably not cover (connectors, leaders).
     pub segments: Vec<((f64, f64), (f64, f64))>,
+    /// Leaders drawn so far: no later text may cover one (a leader through
+    /// a text seems to point at it).
+    pub leaders: Vec<((f64, f64), (f64, f64))>,
 }
 
 impl Placer {
@@ -83,6 +86,10 @@ impl Placer {
                 .blocked
                 .iter()
                 .all(|b| !b.intersects(&r.inflate(CLEARANCE)))
+            && self
+                .leaders
+                .iter()
+                .all(|(a, b)| !segment_hits_rect(*a, *b, r))
     }
 
     /// How many soft segments cross `r`. The box's edges are glyph side
@@ -138,14 +145,7 @@ impl Placer {
             }
             if needs_leader {
                 let (origin, to) = leader(origin, reach, r);
-                let cuts = self.blocked.iter().any(|b| {
-                    !b.inflate(0.05).contains(&Rect {
-                        x0: origin.0,
-                        y0: origin.1,
-                        x1: origin.0,
-                        y1: origin.1,
-                    }) && segment_hits_rect(origin, to, b)
-                });
+                let cuts = self.leader_cuts(origin, to);
                 // A clear text's leader crosses no line either: a reader
                 // follows it to the wrong owner.
                 let crosses = clear
@@ -233,6 +233,20 @@ impl Placer {
     #[cfg(test)]
     fn choose_at(&self, candidates: &[Candidate]) -> Option<Candidate> {
         self.choose_from(candidates, (40.0, 30.0), 0.0)
+    }
+
+    /// True when a leader from `origin` (on its bar) to `to` would cut
+    /// through a placed text or another bar.
+    pub fn leader_cuts(&self, origin: (f64, f64), to: (f64, f64)) -> bool {
+        let at = Rect {
+            x0: origin.0,
+            y0: origin.1,
+            x1: origin.0,
+            y1: origin.1,
+        };
+        self.blocked
+            .iter()
+            .any(|b| !b.inflate(0.05).contains(&at) && segment_hits_rect(origin, to, b))
     }
 
     /// Marks `r` as taken.
@@ -588,6 +602,7 @@ mod tests {
             },
             blocked: Vec::new(),
             segments: Vec::new(),
+            leaders: Vec::new(),
         }
     }
 
