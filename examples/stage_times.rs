@@ -1,8 +1,9 @@
 //! Time per stage of drawing one figure, in process (no start-up, no file
 //! writes): parse, analyze, figure spec, layout (also as the first layout of
-//! a process, before text widths are remembered), SVG, and for PNG the SVG
-//! read back into a tree, a one-pixmap raster for reference and the PNG as
-//! eyrie makes it (banded raster and encoding overlap); PDF as one stage.
+//! a process, before text widths are remembered), SVG, the PNG as eyrie makes
+//! it (drawn straight from the scene in bands, each encoded as it is done),
+//! and for reference the older route of the SVG read back into a usvg tree
+//! and drawn by resvg into one pixmap; PDF as one stage.
 //! The benchmark `benches/render.sh` runs it; whole-process times are there.
 //!
 //!     cargo run --release --example stage_times -- profiles/demo.toml 600 200
@@ -112,16 +113,16 @@ fn main() {
         ),
         ("SVG", median_us(runs, || eyrie::render::to_svg(&scene))),
         (
-            "SVG → tree (usvg)",
+            "PNG total (draw bands + encode)",
+            median_us(runs.min(50), || eyrie::render::to_png(&scene, dpi).is_ok()),
+        ),
+        (
+            "ref: SVG → tree (usvg)",
             median_us(runs, || usvg::Tree::from_str(&svg, &usvg_options).is_ok()),
         ),
         (
-            "raster, one pixmap (reference)",
+            "ref: resvg raster, one pixmap",
             median_us(runs.min(50), raster),
-        ),
-        (
-            "PNG total (tree + bands + encode)",
-            median_us(runs.min(50), || eyrie::render::to_png(&scene, dpi).is_ok()),
         ),
         (
             "PDF total",
@@ -139,10 +140,4 @@ fn main() {
     for (name, us) in &rows {
         println!("{name:<36} {us:>10.0} µs");
     }
-    let get = |n: &str| rows.iter().find(|(k, _)| *k == n).map_or(0.0, |r| r.1);
-    let rest = get("PNG total (tree + bands + encode)") - get("SVG → tree (usvg)");
-    println!(
-        "{:<36} {:>10.0} µs (PNG total − tree)",
-        "bands + encode (PNG)", rest
-    );
 }

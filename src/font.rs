@@ -35,7 +35,9 @@ pub enum Face {
     Italic = 1,
 }
 
-fn face(which: Face) -> &'static rustybuzz::Face<'static> {
+/// The parsed face, for shaping and (through its `ttf_parser` methods) glyph
+/// outlines.
+pub(crate) fn face(which: Face) -> &'static rustybuzz::Face<'static> {
     static REGULAR_FACE: OnceLock<rustybuzz::Face<'static>> = OnceLock::new();
     static ITALIC_FACE: OnceLock<rustybuzz::Face<'static>> = OnceLock::new();
     let (cell, data) = match which {
@@ -98,10 +100,21 @@ thread_local! {
     static PLANS: RefCell<Plans> = const { RefCell::new(Vec::new()) };
 }
 
+fn shaped_width_em(text: &str, which: Face) -> f64 {
+    let f = face(which);
+    let shaped = shape(text, which);
+    let units: i64 = shaped
+        .glyph_positions()
+        .iter()
+        .map(|p| i64::from(p.x_advance))
+        .sum();
+    units as f64 / per_em(f)
+}
+
 /// Shapes `text` with a plan made once per face and script, exactly as
 /// `rustybuzz::shape` would make it (direction left to right, no language, no
-/// extra features).
-fn shaped_width_em(text: &str, which: Face) -> f64 {
+/// extra features): the glyphs the PNG draws are the ones the layout measured.
+pub(crate) fn shape(text: &str, which: Face) -> rustybuzz::GlyphBuffer {
     let f = face(which);
     let mut buffer = rustybuzz::UnicodeBuffer::new();
     buffer.push_str(text);
@@ -109,7 +122,7 @@ fn shaped_width_em(text: &str, which: Face) -> f64 {
     buffer.guess_segment_properties();
     // The guess never settles on "unknown": that value means no script.
     let script = Some(buffer.script()).filter(|s| *s != rustybuzz::script::UNKNOWN);
-    let shaped = PLANS.with(|cell| {
+    PLANS.with(|cell| {
         let mut plans = cell.borrow_mut();
         let i = match plans
             .iter()
@@ -129,13 +142,7 @@ fn shaped_width_em(text: &str, which: Face) -> f64 {
             }
         };
         rustybuzz::shape_with_plan(f, &plans[i].2, buffer)
-    });
-    let units: i64 = shaped
-        .glyph_positions()
-        .iter()
-        .map(|p| i64::from(p.x_advance))
-        .sum();
-    units as f64 / per_em(f)
+    })
 }
 
 /// Whether the bundled font has a glyph for `c` (else it draws a box).

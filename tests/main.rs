@@ -21,6 +21,7 @@ mod plot_cli;
 mod rate_control;
 mod reference_checks;
 mod render_outputs;
+mod render_direct;
 mod render_overlay;
 mod render_svg;
 mod simulate_cli;

@@ -1,12 +1,14 @@
 //! Draws a [`crate::layout::Scene`]; never sees a profile.
 //!
 //! Each output format is one module that reads only the scene, so a new
-//! format is a new module, not a change to the layout. PNG and PDF are made
-//! from the SVG text (parsed by usvg against the bundled font only), so all
-//! three formats show the same picture.
+//! format is a new module, not a change to the layout. PNG is drawn from the
+//! scene itself (`raster`, the way an SVG renderer draws the SVG, checked
+//! against resvg in the tests); PDF is made from the SVG text (parsed by usvg
+//! against the bundled font only), so all three formats show the same picture.
 
 mod pdf;
 mod png;
+mod raster;
 mod svg;
 mod tree;
 mod xml;

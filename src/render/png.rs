@@ -1,13 +1,13 @@
-//! PNG output: the SVG drawn by resvg/tiny-skia at a chosen resolution.
+//! PNG output: the scene drawn by tiny-skia at a chosen resolution
+//! ([`super::raster`], no SVG text in between).
 //!
 //! The image is `round(width_mm / 25.4 × dpi)` pixels wide (and likewise
 //! high), carries its resolution in a `pHYs` chunk (so word processors and
 //! journal systems place it at its printed size), and is encoded with fixed
 //! settings and no time stamp, so the same figure always gives the same bytes.
 //!
-//! Speed (a 600 dpi figure is 3 million pixels): the page is filled white
-//! instead of drawing the SVG's background rectangle, so every pixel is
-//! opaque and the file is plain RGB; the page is drawn in a fixed number of
+//! Speed (a 600 dpi figure is 3 million pixels): the page is filled white,
+//! so every pixel is opaque and the file is plain RGB; the page is drawn in a fixed number of
 //! horizontal bands into one reused band-sized pixmap (an eighth of the
 //! memory to fault in, and each band is encoded while still in cache); each
 //! row is filtered with PNG's "up" filter as it is copied out of the pixmap
@@ -15,8 +15,8 @@
 //! uses for `Compression::Fast`), without an RGB copy of the image.
 
 use super::RenderError;
+use super::raster::Page;
 use crate::layout::Scene;
-use resvg::{tiny_skia, usvg};
 
 /// Largest image eyrie draws, in pixels (a band of it, about 150 MB, is held
 /// in memory while drawing).
@@ -44,15 +44,17 @@ pub fn to_png(scene: &Scene, dpi: f64) -> Result<Vec<u8>, RenderError> {
     if !(dpi.is_finite() && dpi > 0.0) || w == 0 || h == 0 || w * h > MAX_PIXELS {
         return Err(too_big());
     }
-    let tree = super::tree::parse(&super::svg::to_svg_unfilled(scene))?;
-    let size = tree.size();
-    let scale = tiny_skia::Transform::from_scale(w as f32 / size.width(), h as f32 / size.height());
+    let scale = tiny_skia::Transform::from_scale(
+        (w as f64 / scene.width_mm) as f32,
+        (h as f64 / scene.height_mm) as f32,
+    );
+    let page = Page::new(scene, scale);
     let (w, h) = (w as u32, h as u32);
     let band_h = h.div_ceil(BANDS);
     let mut band = tiny_skia::Pixmap::new(w, band_h).ok_or_else(too_big)?;
     let mut rows = Rows::new(w, h)?;
     for first in (0..h).step_by(band_h as usize) {
-        draw(&tree, scale, &mut band, first);
+        draw(&page, scale, &mut band, first);
         rows.write(&band, band_h.min(h - first))?;
     }
     rows.finish(dpi)
@@ -60,16 +62,11 @@ pub fn to_png(scene: &Scene, dpi: f64) -> Result<Vec<u8>, RenderError> {
 
 /// Draws the page into `band` on white, shifted up by `first_row` rows
 /// (tiny-skia skips what falls outside the band).
-fn draw(
-    tree: &usvg::Tree,
-    scale: tiny_skia::Transform,
-    band: &mut tiny_skia::Pixmap,
-    first_row: u32,
-) {
+fn draw(page: &Page, scale: tiny_skia::Transform, band: &mut tiny_skia::Pixmap, first_row: u32) {
     // Opaque white is 255 in every byte, premultiplied or not: a memset.
     band.data_mut().fill(255);
     let transform = scale.post_translate(0.0, -(first_row as f32));
-    resvg::render(tree, transform, &mut band.as_mut());
+    page.draw(&mut band.as_mut(), transform);
 }
 
 /// The image data being compressed, row by row, as one 8-bit RGB image.
@@ -233,22 +230,44 @@ mod tests {
 
     #[test]
     fn banded_drawing_matches_one_pass() {
-        // A one-pass resvg render of the same SVG (with its background
-        // rectangle) is the reference.
-        let svg = r##"<svg xmlns="http://www.w3.org/2000/svg" width="30mm" height="20mm" viewBox="0 0 30 20"><rect x="0" y="0" width="30" height="20" fill="#ffffff"/><path d="M2,3 C10,25 20,-5 28,17" stroke="#0072b2" stroke-width="0.4" fill="none"/><line x1="3" y1="10" x2="27" y2="10.3" stroke="#000000" stroke-width="0.3"/></svg>"##;
-        let tree = super::super::tree::parse(svg).unwrap();
+        // The same page drawn in one pixmap is the reference.
+        use crate::layout::{Colour, Curve, Item, Line, Role};
+        let scene = Scene {
+            width_mm: 30.0,
+            height_mm: 20.0,
+            title: None,
+            font_family: String::new(),
+            items: vec![
+                Item::Curve(Curve {
+                    start: (2.0, 3.0),
+                    segments: vec![[(10.0, 25.0), (20.0, -5.0), (28.0, 17.0)]],
+                    colour: Colour::hex(0x0072b2),
+                    width_pt: 0.4 / crate::layout::text::PT_MM,
+                    dash: None,
+                    role: Role::Connector,
+                    tag: None,
+                }),
+                Item::Line(Line {
+                    points: vec![(3.0, 10.0), (27.0, 10.3)],
+                    colour: Colour::hex(0),
+                    width_pt: 0.3 / crate::layout::text::PT_MM,
+                    dash: None,
+                    role: Role::Bar,
+                    tag: None,
+                }),
+            ],
+        };
         let (w, h) = pixel_size(30.0, 20.0, 300.0);
-        let size = tree.size();
-        let scale =
-            tiny_skia::Transform::from_scale(w as f32 / size.width(), h as f32 / size.height());
+        let scale = tiny_skia::Transform::from_scale(w as f32 / 30.0, h as f32 / 20.0);
+        let page = Page::new(&scene, scale);
         let mut whole = tiny_skia::Pixmap::new(w as u32, h as u32).unwrap();
-        resvg::render(&tree, scale, &mut whole.as_mut());
+        draw(&page, scale, &mut whole, 0);
         let (w32, h32) = (w as u32, h as u32);
         let mut rows = Rows::new(w32, h32).unwrap();
         // Three bands of unequal height, the last one partly used.
         let mut band = tiny_skia::Pixmap::new(w32, h32 / 3 + 1).unwrap();
         for first in [0, h32 / 3 + 1, 2 * (h32 / 3 + 1)] {
-            draw(&tree, scale, &mut band, first);
+            draw(&page, scale, &mut band, first);
             rows.write(&band, (h32 / 3 + 1).min(h32 - first)).unwrap();
         }
         let (dw, dh, rgb) = decode(&rows.finish(300.0).unwrap());

@@ -12,16 +12,6 @@ use std::fmt::Write;
 
 /// The scene as a standalone SVG document.
 pub fn to_svg(scene: &Scene) -> String {
-    write(scene, true)
-}
-
-/// The SVG without its white background rectangle, for a renderer that
-/// fills the page white itself (faster than drawing a page-sized rectangle).
-pub(super) fn to_svg_unfilled(scene: &Scene) -> String {
-    write(scene, false)
-}
-
-fn write(scene: &Scene, background: bool) -> String {
     let mut out = String::with_capacity(4096 + 256 * scene.items.len());
     let (w, h) = (num(scene.width_mm), num(scene.height_mm));
     out.push_str("<?xml version=\"1.0\" encoding=\"UTF-8\"?>\n");
@@ -35,12 +25,10 @@ fn write(scene: &Scene, background: bool) -> String {
         escape_into(&mut out, title);
         out.push_str("</title>\n");
     }
-    if background {
-        let _ = writeln!(
-            out,
-            "<rect class=\"background\" x=\"0\" y=\"0\" width=\"{w}\" height=\"{h}\" fill=\"#ffffff\"/>"
-        );
-    }
+    let _ = writeln!(
+        out,
+        "<rect class=\"background\" x=\"0\" y=\"0\" width=\"{w}\" height=\"{h}\" fill=\"#ffffff\"/>"
+    );
     for item in &scene.items {
         match item {
             Item::Line(l) => line(&mut out, l),

@@ -1,10 +1,10 @@
-//! The SVG text parsed into a usvg tree, with every `font-family` resolved to
-//! the bundled font: no system font is ever loaded, so PNG and PDF come out
-//! the same on every machine.
+//! The SVG text parsed into a usvg tree (svg2pdf's own usvg), with every
+//! `font-family` resolved to the bundled font: no system font is ever loaded,
+//! so the PDF comes out the same on every machine.
 
 use super::RenderError;
-use resvg::usvg::{self, fontdb};
 use std::sync::{Arc, OnceLock};
+use svg2pdf::usvg::{self, fontdb};
 
 /// A font database holding only the bundled faces, also standing in for every
 /// generic family (`sans-serif`, `serif`, …).
