@@ -178,16 +178,18 @@ fn direct_png_matches_resvg_of_the_svg() {
     let mut run = |name: &str, args: Vec<String>| {
         let args: Vec<&str> = args.iter().map(String::as_str).collect();
         let d = check(name, &args);
-        // Bounds: both draw the same paths with the same rasteriser
-        // (tiny-skia), so they differ only where a glyph sits a fraction of a
-        // pixel apart (f32 sums in another order, SVG numbers written to
-        // 1 µm) and in anti-aliased edge pixels. Measured at 150 dpi: mean
-        // 0.017–0.058 per channel, at most 3 pixels (0.0005 %) off by more
-        // than 64, ink within 0.1 %. The bounds are twice the worst mean and
-        // 40× the worst far share: one 7 pt label missing or set 0.1 mm
-        // aside already exceeds them (checked by breaking the renderer).
+        // Bounds: strokes are drawn by the same rasteriser (tiny-skia) in
+        // both; text is not (exact-area glyph coverage against tiny-skia's
+        // 4 × 4 supersampling, so edge pixels differ by a few levels and the
+        // direct text is up to ~1 % lighter). Measured at 150 dpi: mean
+        // 0.22–0.49 per channel, at most 3 pixels (0.0006 %) off by more than
+        // 64, ink within 0.6 %. A label set in the wrong face (italic drawn
+        // upright: 0.11 % of pixels far off) or text moved 0.1 mm (1–2 %)
+        // fails the far-pixel bound, 40× the worst measured (both checked by
+        // breaking the renderer); the mean and ink bounds catch wholesale
+        // changes (colour, weight, a missing stroke).
         let ink_gap = d.ink.0.abs_diff(d.ink.1) as f64 / d.ink.1.max(1) as f64;
-        if d.mean > 0.12 || d.far_share > 2e-4 || ink_gap > 0.005 || d.ink.1 == 0 {
+        if d.mean > 0.8 || d.far_share > 2e-4 || ink_gap > 0.015 || d.ink.1 == 0 {
             failures.push(format!("{name}: {d:?}"));
         }
     };

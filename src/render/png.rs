@@ -54,7 +54,7 @@ pub fn to_png(scene: &Scene, dpi: f64) -> Result<Vec<u8>, RenderError> {
     let mut band = tiny_skia::Pixmap::new(w, band_h).ok_or_else(too_big)?;
     let mut rows = Rows::new(w, h)?;
     for first in (0..h).step_by(band_h as usize) {
-        draw(&page, scale, &mut band, first);
+        draw(&page, &mut band, first);
         rows.write(&band, band_h.min(h - first))?;
     }
     rows.finish(dpi)
@@ -62,11 +62,10 @@ pub fn to_png(scene: &Scene, dpi: f64) -> Result<Vec<u8>, RenderError> {
 
 /// Draws the page into `band` on white, shifted up by `first_row` rows
 /// (tiny-skia skips what falls outside the band).
-fn draw(page: &Page, scale: tiny_skia::Transform, band: &mut tiny_skia::Pixmap, first_row: u32) {
+fn draw(page: &Page, band: &mut tiny_skia::Pixmap, first_row: u32) {
     // Opaque white is 255 in every byte, premultiplied or not: a memset.
     band.data_mut().fill(255);
-    let transform = scale.post_translate(0.0, -(first_row as f32));
-    page.draw(&mut band.as_mut(), transform);
+    page.draw(&mut band.as_mut(), first_row);
 }
 
 /// The image data being compressed, row by row, as one 8-bit RGB image.
@@ -261,13 +260,13 @@ mod tests {
         let scale = tiny_skia::Transform::from_scale(w as f32 / 30.0, h as f32 / 20.0);
         let page = Page::new(&scene, scale);
         let mut whole = tiny_skia::Pixmap::new(w as u32, h as u32).unwrap();
-        draw(&page, scale, &mut whole, 0);
+        draw(&page, &mut whole, 0);
         let (w32, h32) = (w as u32, h as u32);
         let mut rows = Rows::new(w32, h32).unwrap();
         // Three bands of unequal height, the last one partly used.
         let mut band = tiny_skia::Pixmap::new(w32, h32 / 3 + 1).unwrap();
         for first in [0, h32 / 3 + 1, 2 * (h32 / 3 + 1)] {
-            draw(&page, scale, &mut band, first);
+            draw(&page, &mut band, first);
             rows.write(&band, (h32 / 3 + 1).min(h32 - first)).unwrap();
         }
         let (dw, dh, rgb) = decode(&rows.finish(300.0).unwrap());

@@ -11,9 +11,11 @@
 //! anchor and turned by the text's rotation. Glyph outlines are read once per
 //! (face, glyph) and kept in font units.
 //!
-//! Everything is prepared once in page millimetres ([`Page::new`]) and can be
-//! drawn many times at any scale and offset ([`Page::draw`]), so a page drawn
-//! in bands shapes, dashes and strokes its items only once.
+//! Everything is prepared once for the page's resolution ([`Page::new`]):
+//! strokes dashed and outlined, text turned into pixel coverage (exact-area
+//! rasterising of the glyph outlines, several times faster than tiny-skia's
+//! scan converter for the many small curves of text). The page is then
+//! painted band by band ([`Page::draw`]) without repeating any of that.
 
 use crate::font::{self, Face};
 use crate::layout::rich::{SCRIPT_SCALE, SUB_DROP, SUPER_RISE};
@@ -27,9 +29,12 @@ use tiny_skia::{FillRule, Paint, Path, PathBuilder, PathSegment, PixmapMut, Stro
 /// leaves unset.
 const MITER_LIMIT: f32 = 4.0;
 
-/// A scene ready to draw: paths in page millimetres, in painting order.
+/// A scene ready to draw at one resolution: strokes as paths in page
+/// millimetres, text as coverage in pixels, in painting order.
 pub(super) struct Page {
     ops: Vec<Op>,
+    /// Page mm to pixels.
+    scale: Transform,
 }
 
 /// One thing to paint.
@@ -39,14 +44,16 @@ enum Op {
     /// A stroke thin enough to be drawn as a hairline at the scale it was
     /// prepared for (tiny-skia draws those specially), kept as a stroke.
     Stroke(Path, Colour, Stroke),
+    /// Text: how much of each pixel its glyphs cover.
+    Coverage(Coverage, Colour),
 }
 
 impl Page {
     /// Prepares `scene` for drawing with `scale` (mm to pixels, without the
     /// offset of a band): strokes are outlined as precisely as it needs.
-    pub(super) fn new(scene: &Scene, scale: Transform) -> Page {
+    pub(super) fn new(scene: &Scene, transform: Transform) -> Page {
         // tiny-skia's measure of how far a transform magnifies.
-        let scale = (scale.sx.hypot(scale.kx)).max(scale.ky.hypot(scale.sy));
+        let scale = (transform.sx.hypot(transform.kx)).max(transform.ky.hypot(transform.sy));
         let mut ops = Vec::with_capacity(scene.items.len());
         for item in &scene.items {
             let op = match item {
@@ -56,18 +63,26 @@ impl Page {
                 Item::Curve(c) => {
                     curve_path(c).and_then(|p| stroked(p, c.colour, c.width_pt, &c.dash, scale))
                 }
-                Item::Text(t) => text_path(t).map(|p| Op::Fill(p, t.colour)),
+                Item::Text(t) => text_path(t)
+                    .and_then(|p| p.transform(transform))
+                    .and_then(|p| Coverage::new(&p))
+                    .map(|c| Op::Coverage(c, t.colour)),
             };
             ops.extend(op);
         }
-        Page { ops }
+        Page {
+            ops,
+            scale: transform,
+        }
     }
 
-    /// Paints the page onto `pixmap` with `transform` from mm to pixels
-    /// (tiny-skia skips what falls outside the pixmap).
-    pub(super) fn draw(&self, pixmap: &mut PixmapMut, transform: Transform) {
+    /// Paints the page onto `pixmap`, whose top row is the page's row
+    /// `first_row` (tiny-skia skips what falls outside the pixmap).
+    pub(super) fn draw(&self, pixmap: &mut PixmapMut, first_row: u32) {
+        let transform = self.scale.post_translate(0.0, -(first_row as f32));
         for op in &self.ops {
             match op {
+                Op::Coverage(coverage, colour) => coverage.paint(pixmap, first_row, *colour),
                 Op::Fill(path, colour) => {
                     pixmap.fill_path(path, &paint(*colour), FillRule::Winding, transform, None);
                 }
@@ -467,6 +482,113 @@ fn push_transformed(pb: &mut PathBuilder, path: &Path, ts: Transform) {
                 pb.cubic_to(p1.x, p1.y, p2.x, p2.y, p.x, p.y);
             }
             PathSegment::Close => pb.close(),
+        }
+    }
+}
+
+/// The coverage of a filled outline over a block of pixels, 0–255 each,
+/// computed once as exact areas (ab_glyph_rasterizer, the font-rs method):
+/// text is most of a figure's edges, and this is several times faster than
+/// scan-converting every glyph in every band, with edges as smooth.
+struct Coverage {
+    /// Left column of the block on the page.
+    x0: i64,
+    /// Top row of the block on the page.
+    y0: i64,
+    /// Width of the block in pixels.
+    w: usize,
+    /// Coverage, row by row.
+    alpha: Vec<u8>,
+}
+
+impl Coverage {
+    /// The coverage of `path` (in page pixels, closed contours, non-zero
+    /// winding as glyphs are drawn), or `None` when it has no area.
+    fn new(path: &Path) -> Option<Coverage> {
+        use ab_glyph_rasterizer::{Point, Rasterizer, point};
+        let b = path.bounds();
+        // One spare pixel on every side: the rasterizer may touch the pixel
+        // right of an edge.
+        let x0 = b.left().floor() as i64 - 1;
+        let y0 = b.top().floor() as i64 - 1;
+        let w = (b.right().ceil() as i64 - x0 + 2) as usize;
+        let h = (b.bottom().ceil() as i64 - y0 + 2) as usize;
+        if w.checked_mul(h).is_none_or(|n| n > 1 << 28) {
+            return None;
+        }
+        let mut r = Rasterizer::new(w, h);
+        let at = |p: tiny_skia::Point| point(p.x - x0 as f32, p.y - y0 as f32);
+        let (mut start, mut last): (Option<Point>, Point) = (None, point(0.0, 0.0));
+        let close = |r: &mut Rasterizer, start: Option<Point>, last: Point| {
+            if let Some(s) = start.filter(|s| *s != last) {
+                r.draw_line(last, s);
+            }
+        };
+        for seg in path.segments() {
+            match seg {
+                PathSegment::MoveTo(p) => {
+                    close(&mut r, start, last);
+                    last = at(p);
+                    start = Some(last);
+                }
+                PathSegment::LineTo(p) => {
+                    let p = at(p);
+                    r.draw_line(last, p);
+                    last = p;
+                }
+                PathSegment::QuadTo(p1, p) => {
+                    let p = at(p);
+                    r.draw_quad(last, at(p1), p);
+                    last = p;
+                }
+                PathSegment::CubicTo(p1, p2, p) => {
+                    let p = at(p);
+                    r.draw_cubic(last, at(p1), at(p2), p);
+                    last = p;
+                }
+                PathSegment::Close => {
+                    close(&mut r, start, last);
+                    last = start.unwrap_or(last);
+                }
+            }
+        }
+        close(&mut r, start, last);
+        let mut alpha = vec![0u8; w * h];
+        r.for_each_pixel(|i, a| alpha[i] = (a.min(1.0) * 255.0 + 0.5) as u8);
+        Some(Coverage { x0, y0, w, alpha })
+    }
+
+    /// Paints `colour` over the part of `pixmap` (whose top row is page row
+    /// `first_row`) the block covers, each pixel in proportion to its
+    /// coverage: source-over of an opaque colour, as tiny-skia paints.
+    fn paint(&self, pixmap: &mut PixmapMut, first_row: u32, colour: Colour) {
+        let (pw, ph) = (pixmap.width() as i64, pixmap.height() as i64);
+        let h = (self.alpha.len() / self.w) as i64;
+        let top = self.y0 - i64::from(first_row);
+        let rows = top.max(0)..(top + h).min(ph);
+        let cols = self.x0.max(0)..(self.x0 + self.w as i64).min(pw);
+        if rows.is_empty() || cols.is_empty() {
+            return;
+        }
+        let data = pixmap.data_mut();
+        let src = [
+            u32::from(colour.r),
+            u32::from(colour.g),
+            u32::from(colour.b),
+        ];
+        for y in rows {
+            let line = &self.alpha[(y - top) as usize * self.w..][..self.w];
+            let row = &mut data[(y * pw) as usize * 4..][..pw as usize * 4];
+            for x in cols.clone() {
+                let a = u32::from(line[(x - self.x0) as usize]);
+                if a == 0 {
+                    continue;
+                }
+                let px = &mut row[x as usize * 4..][..3];
+                for (d, s) in px.iter_mut().zip(src) {
+                    *d = ((s * a + u32::from(*d) * (255 - a) + 127) / 255) as u8;
+                }
+            }
         }
     }
 }
