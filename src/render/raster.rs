@@ -55,6 +55,9 @@ impl Page {
         // tiny-skia's measure of how far a transform magnifies.
         let scale = (transform.sx.hypot(transform.kx)).max(transform.ky.hypot(transform.sy));
         let mut ops = Vec::with_capacity(scene.items.len());
+        // One coverage grid for every text, grown as needed (a fresh large
+        // buffer per text is fresh pages for the kernel to fault in).
+        let mut grid = ab_glyph_rasterizer::Rasterizer::new(0, 0);
         for item in &scene.items {
             let op = match item {
                 Item::Line(l) => {
@@ -65,7 +68,7 @@ impl Page {
                 }
                 Item::Text(t) => text_path(t)
                     .and_then(|p| p.transform(transform))
-                    .and_then(|p| Coverage::new(&p))
+                    .and_then(|p| Coverage::new(&p, &mut grid))
                     .map(|c| Op::Coverage(c, t.colour)),
             };
             ops.extend(op);
@@ -504,7 +507,7 @@ struct Coverage {
 impl Coverage {
     /// The coverage of `path` (in page pixels, closed contours, non-zero
     /// winding as glyphs are drawn), or `None` when it has no area.
-    fn new(path: &Path) -> Option<Coverage> {
+    fn new(path: &Path, r: &mut ab_glyph_rasterizer::Rasterizer) -> Option<Coverage> {
         use ab_glyph_rasterizer::{Point, Rasterizer, point};
         let b = path.bounds();
         // One spare pixel on every side: the rasterizer may touch the pixel
@@ -516,7 +519,7 @@ impl Coverage {
         if w.checked_mul(h).is_none_or(|n| n > 1 << 28) {
             return None;
         }
-        let mut r = Rasterizer::new(w, h);
+        r.reset(w, h);
         let at = |p: tiny_skia::Point| point(p.x - x0 as f32, p.y - y0 as f32);
         let (mut start, mut last): (Option<Point>, Point) = (None, point(0.0, 0.0));
         let close = |r: &mut Rasterizer, start: Option<Point>, last: Point| {
@@ -527,7 +530,7 @@ impl Coverage {
         for seg in path.segments() {
             match seg {
                 PathSegment::MoveTo(p) => {
-                    close(&mut r, start, last);
+                    close(r, start, last);
                     last = at(p);
                     start = Some(last);
                 }
@@ -547,12 +550,12 @@ impl Coverage {
                     last = p;
                 }
                 PathSegment::Close => {
-                    close(&mut r, start, last);
+                    close(r, start, last);
                     last = start.unwrap_or(last);
                 }
             }
         }
-        close(&mut r, start, last);
+        close(r, start, last);
         let mut alpha = vec![0u8; w * h];
         r.for_each_pixel(|i, a| alpha[i] = (a.min(1.0) * 255.0 + 0.5) as u8);
         Some(Coverage { x0, y0, w, alpha })
