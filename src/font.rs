@@ -61,8 +61,9 @@ pub fn advance_em(c: char, which: Face) -> f64 {
     f64::from(f.glyph_hor_advance(glyph).unwrap_or(0)) / per_em(f)
 }
 
-/// Width of one line of text in em, shaped left to right as resvg and svg2pdf
-/// shape it (default OpenType features, so kerning applies).
+/// Width of one line of text in em, shaped left to right as resvg and the
+/// PNG and PDF writers shape it (default OpenType features, so kerning
+/// applies).
 ///
 /// The layout measures the same few labels hundreds of times while it tries
 /// candidate spots and line breaks, so widths are remembered per thread (and

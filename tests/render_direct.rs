@@ -1,9 +1,10 @@
-//! The PNG is drawn straight from the scene (src/render/raster.rs), not from
-//! the SVG. Checked here against an independent renderer: resvg drawing the
-//! SVG that eyrie writes for the same figure, at the same pixel size, with the
-//! bundled font only. Every example profile with the options the gallery uses
-//! (annotations, smooth connectors, variants, axis break, double column), and
-//! a chart, must come out the same up to anti-aliasing.
+//! PNG and PDF are written straight from the scene (src/render/raster.rs,
+//! pdf.rs), not from the SVG. The PNG is checked against an independent
+//! renderer: resvg drawing the SVG that eyrie writes for the same figure, at
+//! the same pixel size, with the bundled font only. Every example profile
+//! with the options the gallery uses (annotations, smooth connectors,
+//! variants, axis break, double column), and a chart, must come out the same
+//! up to anti-aliasing. The PDF's text layer must hold every text of the SVG.
 
 use crate::common::repo;
 use resvg::{tiny_skia, usvg};
@@ -138,42 +139,43 @@ fn check(name: &str, args: &[&str]) -> Difference {
     d
 }
 
+/// Every example profile with the options gallery/regenerate.sh draws it with.
+const CASES: [(&str, &[&str]); 10] = [
+    ("demo", &[]),
+    (
+        "catalytic-cycle",
+        &["--annotate", "span", "--connectors", "smooth"],
+    ),
+    (
+        "hydrogenation-cycle",
+        &["--annotate", "span", "--connectors", "smooth"],
+    ),
+    (
+        "conformers",
+        &["--annotate", "selectivity", "--connectors", "smooth"],
+    ),
+    (
+        "curtin-hammett",
+        &["--annotate", "selectivity", "--connectors", "smooth"],
+    ),
+    (
+        "entropy-switch",
+        &["--annotate", "selectivity", "--connectors", "smooth"],
+    ),
+    (
+        "three-branch",
+        &["--annotate", "selectivity", "--connectors", "smooth"],
+    ),
+    (
+        "hartree-absolute",
+        &["--annotate", "barriers", "--unit", "kcal/mol"],
+    ),
+    ("hydride-transfer", &["--variants", "all"]),
+    ("dense-network", &["--size", "double", "--axis-break"]),
+];
+
 #[test]
 fn direct_png_matches_resvg_of_the_svg() {
-    // The options each profile is drawn with in gallery/regenerate.sh.
-    let cases: [(&str, &[&str]); 10] = [
-        ("demo", &[]),
-        (
-            "catalytic-cycle",
-            &["--annotate", "span", "--connectors", "smooth"],
-        ),
-        (
-            "hydrogenation-cycle",
-            &["--annotate", "span", "--connectors", "smooth"],
-        ),
-        (
-            "conformers",
-            &["--annotate", "selectivity", "--connectors", "smooth"],
-        ),
-        (
-            "curtin-hammett",
-            &["--annotate", "selectivity", "--connectors", "smooth"],
-        ),
-        (
-            "entropy-switch",
-            &["--annotate", "selectivity", "--connectors", "smooth"],
-        ),
-        (
-            "three-branch",
-            &["--annotate", "selectivity", "--connectors", "smooth"],
-        ),
-        (
-            "hartree-absolute",
-            &["--annotate", "barriers", "--unit", "kcal/mol"],
-        ),
-        ("hydride-transfer", &["--variants", "all"]),
-        ("dense-network", &["--size", "double", "--axis-break"]),
-    ];
     let mut failures = Vec::new();
     let mut run = |name: &str, args: Vec<String>| {
         let args: Vec<&str> = args.iter().map(String::as_str).collect();
@@ -193,7 +195,7 @@ fn direct_png_matches_resvg_of_the_svg() {
             failures.push(format!("{name}: {d:?}"));
         }
     };
-    for (name, extra) in cases {
+    for (name, extra) in CASES {
         let profile = repo(&format!("profiles/{name}.toml"));
         let mut args = vec!["render".to_string(), profile, "-o".into(), "{out}".into()];
         args.extend(extra.iter().map(|s| s.to_string()));
@@ -212,4 +214,46 @@ fn direct_png_matches_resvg_of_the_svg() {
         .collect(),
     );
     assert!(failures.is_empty(), "{}", failures.join("\n"));
+}
+
+#[test]
+fn pdf_text_is_the_svg_text() {
+    // The PDF is written from the scene too; every text of the SVG (the
+    // characters of each <text>, styled runs included) must come back out of
+    // the PDF's text layer, read by lopdf (whitespace dropped: extraction
+    // puts breaks between glyphs).
+    let squeeze = |s: &str| -> String { s.chars().filter(|c| !c.is_whitespace()).collect() };
+    for (name, extra) in CASES {
+        let dir = tempfile::tempdir().expect("temp dir");
+        let profile = repo(&format!("profiles/{name}.toml"));
+        for out in ["f.svg", "f.pdf"] {
+            let mut args = vec!["render", profile.as_str(), "-o", out];
+            args.extend_from_slice(extra);
+            eyrie(&args, dir.path());
+        }
+        let svg = std::fs::read_to_string(dir.path().join("f.svg")).expect("SVG written");
+        let doc = roxmltree::Document::parse(&svg).expect("SVG parses");
+        let pdf = lopdf::Document::load(dir.path().join("f.pdf")).expect("the PDF parses");
+        let layer = squeeze(&pdf.extract_text(&[1]).expect("text extracts"));
+        let texts: Vec<String> = doc
+            .descendants()
+            .filter(|n| n.has_tag_name("text"))
+            .map(|n| {
+                squeeze(
+                    &n.descendants()
+                        .filter(|d| d.is_text())
+                        .filter_map(|d| d.text())
+                        .collect::<String>(),
+                )
+            })
+            .filter(|t| !t.is_empty())
+            .collect();
+        assert!(texts.len() > 10, "{name}: only {} texts", texts.len());
+        for t in &texts {
+            assert!(
+                layer.contains(t.as_str()),
+                "{name}: {t:?} not in the PDF's text {layer:?}"
+            );
+        }
+    }
 }

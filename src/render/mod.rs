@@ -1,16 +1,16 @@
 //! Draws a [`crate::layout::Scene`]; never sees a profile.
 //!
 //! Each output format is one module that reads only the scene, so a new
-//! format is a new module, not a change to the layout. PNG is drawn from the
-//! scene itself (`raster`, the way an SVG renderer draws the SVG, checked
-//! against resvg in the tests); PDF is made from the SVG text (parsed by usvg
-//! against the bundled font only), so all three formats show the same picture.
+//! format is a new module, not a change to the layout. All three draw what
+//! the SVG describes: PNG (`raster`) and PDF (`pdf`) are made from the scene
+//! itself, not by reading the SVG back, with text placed by `glyphs` where an
+//! SVG renderer sets it (checked against resvg drawing our SVG in the tests).
 
+mod glyphs;
 mod pdf;
 mod png;
 mod raster;
 mod svg;
-mod tree;
 mod xml;
 
 pub use pdf::to_pdf;
@@ -31,14 +31,11 @@ pub enum RenderError {
         /// Requested height in pixels.
         height_px: u64,
     },
-    /// The SVG could not be read back (a bug in eyrie).
-    #[error("the SVG written by eyrie could not be read back: {0}")]
-    Svg(String),
     /// PNG encoding failed.
     #[error("PNG encoding failed: {0}")]
     Png(String),
-    /// PDF conversion failed.
-    #[error("PDF conversion failed: {0}")]
+    /// PDF writing failed.
+    #[error("PDF writing failed: {0}")]
     Pdf(String),
 }
 

@@ -3,13 +3,9 @@
 //!
 //! It draws what [`super::svg`] describes, the way an SVG renderer (resvg)
 //! draws it: strokes with butt caps, miter joins (limit 4) and the scene's
-//! dash patterns; text as the bundled font's glyph outlines, shaped with
-//! rustybuzz (the shaper the layout measured with), one line of runs shaped
-//! as a whole in each face it uses (so kerning across a style change is kept,
-//! as SVG renderers do for `<tspan>`s), each glyph scaled to its run's size
-//! and raised or lowered by its run's baseline shift, the line placed by its
-//! anchor and turned by the text's rotation. Glyph outlines are read once per
-//! (face, glyph) and kept in font units.
+//! dash patterns; text as the bundled font's glyph outlines, placed by
+//! [`super::glyphs`]. Glyph outlines are read once per (face, glyph) and
+//! kept in font units.
 //!
 //! Everything is prepared once for the page's resolution ([`Page::new`]):
 //! strokes dashed and outlined, text turned into pixel coverage (exact-area
@@ -18,9 +14,8 @@
 //! painted band by band ([`Page::draw`]) without repeating any of that.
 
 use crate::font::{self, Face};
-use crate::layout::rich::{SCRIPT_SCALE, SUB_DROP, SUPER_RISE};
-use crate::layout::text::{LINE_HEIGHT, PT_MM};
-use crate::layout::{Anchor, Colour, Curve, Item, Line, Run, Scene, Script, Text};
+use crate::layout::text::PT_MM;
+use crate::layout::{Colour, Curve, Item, Line, Scene, Text};
 use std::cell::RefCell;
 use std::collections::HashMap;
 use tiny_skia::{FillRule, Paint, Path, PathBuilder, PathSegment, PixmapMut, Stroke, Transform};
@@ -179,38 +174,9 @@ fn dash_pattern(dash: &[f64]) -> Option<tiny_skia::StrokeDash> {
     tiny_skia::StrokeDash::new(list, 0.0)
 }
 
-/// A glyph placed on the page: which outline, and the map from font units
-/// (y up) to page mm (y down).
-struct Placed {
-    face: Face,
-    glyph: u16,
-    transform: Transform,
-}
-
 /// The outlines of every glyph of `t`, as one path in page mm.
 fn text_path(t: &Text) -> Option<Path> {
-    let em = t.size_pt * PT_MM;
-    let turn = if t.rotation == 0.0 {
-        Transform::identity()
-    } else {
-        Transform::from_rotate_at(t.rotation as f32, t.x as f32, t.y as f32)
-    };
-    // As written to SVG: text with a styled run keeps its spaces.
-    let preserve = t.lines.iter().flatten().any(|r| !r.is_plain());
-    let mut placed = Vec::new();
-    for (i, line) in t.lines.iter().enumerate() {
-        let baseline = t.y + i as f64 * LINE_HEIGHT * em;
-        place_line(
-            line,
-            preserve,
-            em,
-            t.x,
-            baseline,
-            t.anchor,
-            turn,
-            &mut placed,
-        );
-    }
+    let placed = super::glyphs::place(t);
     let mut pb = PathBuilder::new();
     OUTLINES.with(|cell| {
         let mut outlines = cell.borrow_mut();
@@ -235,202 +201,6 @@ const MAX_OUTLINES: usize = 4096;
 thread_local! {
     /// Glyph outlines in font units by face and glyph id (`None`: no ink).
     static OUTLINES: RefCell<HashMap<(Face, u16), Option<Path>>> = RefCell::default();
-}
-
-/// A run's face, size (mm per em) and baseline offset (mm, down positive).
-fn run_style(r: &Run, em: f64) -> (Face, f64, f64) {
-    let face = if r.italic {
-        Face::Italic
-    } else {
-        Face::Regular
-    };
-    match r.script {
-        Script::Normal => (face, em, 0.0),
-        Script::Super => (face, SCRIPT_SCALE * em, -SUPER_RISE * em),
-        Script::Sub => (face, SCRIPT_SCALE * em, SUB_DROP * em),
-    }
-}
-
-/// The characters of runs as an SVG reader sees them: line breaks and tabs
-/// are spaces, and in text without styled runs (written without
-/// `xml:space="preserve"`) runs of spaces are one space and the ends trimmed.
-fn svg_text(text: &str, preserve: bool) -> String {
-    let mut out = String::with_capacity(text.len());
-    for c in text.chars() {
-        let c = if matches!(c, '\r' | '\n' | '\t') {
-            ' '
-        } else {
-            c
-        };
-        if !preserve && c == ' ' && (out.is_empty() || out.ends_with(' ')) {
-            continue;
-        }
-        out.push(c);
-    }
-    if !preserve && out.ends_with(' ') {
-        out.pop();
-    }
-    out
-}
-
-/// Places the glyphs of one line whose baseline starts at `(x, y)` before
-/// anchoring.
-#[allow(clippy::too_many_arguments)]
-fn place_line(
-    line: &[Run],
-    preserve: bool,
-    em: f64,
-    x: f64,
-    y: f64,
-    anchor: Anchor,
-    turn: Transform,
-    placed: &mut Vec<Placed>,
-) {
-    // The whole line, and where each run starts in it (bytes). Without
-    // styled runs every run looks the same and the line is one piece of SVG
-    // text, its spaces collapsed as a whole.
-    let mut text = String::new();
-    let mut starts = Vec::with_capacity(line.len());
-    if preserve {
-        for r in line {
-            starts.push(text.len());
-            text.push_str(&svg_text(&r.text, true));
-        }
-    } else {
-        starts.push(0);
-        text = svg_text(&crate::layout::rich::plain(line), false);
-    }
-    if text.is_empty() {
-        return;
-    }
-    let run_at = |byte: usize| starts.partition_point(|&s| s <= byte).saturating_sub(1);
-    // Shaped once per face the line uses; each glyph is taken from the
-    // shaping in its own run's face.
-    let mut faces: Vec<(Face, rustybuzz::GlyphBuffer)> = Vec::new();
-    for r in line {
-        let face = run_style(r, em).0;
-        if !faces.iter().any(|(f, _)| *f == face) {
-            faces.push((face, font::shape(&text, face)));
-        }
-    }
-    let first = &faces[0].1;
-    // Different faces could cut the text into different glyphs (never seen
-    // with the bundled faces): then each run is shaped on its own.
-    let aligned = faces.iter().all(|(_, b)| {
-        b.len() == first.len()
-            && b.glyph_infos()
-                .iter()
-                .zip(first.glyph_infos())
-                .all(|(p, q)| p.cluster == q.cluster)
-    });
-    let mut glyphs: Vec<Glyph> = Vec::new();
-    if aligned {
-        for i in 0..first.len() {
-            let cluster = first.glyph_infos()[i].cluster as usize;
-            let run = &line[run_at(cluster)];
-            let (face, size, shift) = run_style(run, em);
-            let buffer = &faces
-                .iter()
-                .find(|(f, _)| *f == face)
-                .expect("shaped above")
-                .1;
-            glyphs.push(Glyph::new(buffer, i, cluster, face, size, shift));
-        }
-    } else {
-        // Only reached with styled runs, so each run has its start.
-        for (r, &start) in line.iter().zip(&starts) {
-            let (face, size, shift) = run_style(r, em);
-            let piece = svg_text(&r.text, preserve);
-            let buffer = font::shape(&piece, face);
-            for i in 0..buffer.len() {
-                let cluster = start + buffer.glyph_infos()[i].cluster as usize;
-                glyphs.push(Glyph::new(&buffer, i, cluster, face, size, shift));
-            }
-        }
-    }
-    // Clusters (glyphs sharing a character) advance by their widest glyph,
-    // their glyphs placed one after the other inside (as resvg does).
-    let mut clusters: Vec<(usize, usize, f64)> = Vec::new(); // (first glyph, end, advance mm)
-    let mut i = 0;
-    while i < glyphs.len() {
-        let end = i + glyphs[i..]
-            .iter()
-            .take_while(|g| g.cluster == glyphs[i].cluster)
-            .count();
-        let advance = glyphs[i..end]
-            .iter()
-            .map(|g| g.advance as f64 * g.scale())
-            .fold(0.0, f64::max);
-        clusters.push((i, end, advance));
-        i = end;
-    }
-    let total: f64 = clusters.iter().map(|c| c.2).sum();
-    let mut pen = match anchor {
-        Anchor::Start => x,
-        Anchor::Middle => x - total / 2.0,
-        Anchor::End => x - total,
-    };
-    for &(from, end, advance) in &clusters {
-        let mut inside = 0i64;
-        for g in &glyphs[from..end] {
-            let s = g.scale();
-            let gx = pen + (inside + i64::from(g.dx)) as f64 * s;
-            let gy = y + g.shift - f64::from(g.dy) * s;
-            // Font units (y up) → page mm (y down) about the glyph origin.
-            let transform = turn.pre_concat(Transform::from_row(
-                s as f32, 0.0, 0.0, -s as f32, gx as f32, gy as f32,
-            ));
-            placed.push(Placed {
-                face: g.face,
-                glyph: g.id,
-                transform,
-            });
-            inside += i64::from(g.advance);
-        }
-        pen += advance;
-    }
-}
-
-/// One shaped glyph with the style of its run.
-struct Glyph {
-    id: u16,
-    cluster: usize,
-    advance: i32,
-    dx: i32,
-    dy: i32,
-    face: Face,
-    /// Em size in mm.
-    size: f64,
-    /// Baseline offset in mm.
-    shift: f64,
-}
-
-impl Glyph {
-    fn new(
-        buffer: &rustybuzz::GlyphBuffer,
-        i: usize,
-        cluster: usize,
-        face: Face,
-        size: f64,
-        shift: f64,
-    ) -> Glyph {
-        let (info, pos) = (buffer.glyph_infos()[i], buffer.glyph_positions()[i]);
-        Glyph {
-            id: info.glyph_id as u16,
-            cluster,
-            advance: pos.x_advance,
-            dx: pos.x_offset,
-            dy: pos.y_offset,
-            face,
-            size,
-            shift,
-        }
-    }
-
-    /// Millimetres per font unit.
-    fn scale(&self) -> f64 {
-        self.size / f64::from(font::face(self.face).units_per_em())
-    }
 }
 
 /// The outline of `glyph` in font units, or `None` for a glyph without ink.
