@@ -83,7 +83,8 @@ fn main() {
         resvg::render(&tree, transform, &mut pixmap.as_mut());
         pixmap
     };
-    // Warm the renderer's own font database once, as a process would.
+    // Shape and read the glyphs once (per-thread caches), as a process's
+    // first figure does; the fresh-thread row below shows that first time.
     let _ = eyrie::render::to_png(&scene, 10.0);
 
     let rows = [
@@ -117,6 +118,15 @@ fn main() {
             median_us(runs.min(50), || eyrie::render::to_png(&scene, dpi).is_ok()),
         ),
         (
+            "PNG, first in a process",
+            median_us(runs.min(50), || {
+                std::thread::scope(|s| {
+                    s.spawn(|| eyrie::render::to_png(&scene, dpi).is_ok())
+                        .join()
+                })
+            }),
+        ),
+        (
             "ref: SVG → tree (usvg)",
             median_us(runs, || usvg::Tree::from_str(&svg, &usvg_options).is_ok()),
         ),
@@ -135,7 +145,7 @@ fn main() {
     );
     println!(
         "{:<36} {:>10.0} µs (once per process)",
-        "font database", font_load
+        "font database (reference route)", font_load
     );
     for (name, us) in &rows {
         println!("{name:<36} {us:>10.0} µs");
