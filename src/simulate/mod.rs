@@ -12,8 +12,11 @@
 //! rest of the computing core it never prints or writes files.
 //!
 //! - [`network`]: species, reactions, net-flux right-hand side and Jacobian.
-//! - [`integrate`]: stiff adaptive BDF integration (diffsol), dense LU for
-//!   small systems, sparse Jacobian and sparse LU (faer) for large ones.
+//! - [`integrate`]: stiff adaptive variable-order NDF/BDF integration
+//!   (Shampine & Reichelt 1997); `newton` holds the right-hand side, the
+//!   analytic Jacobian and the Newton matrix, dense LU for small systems and
+//!   `sparse_lu` (faer's ordering and first factorisation, then
+//!   refactorisation on kept pivots) for large ones.
 //! - [`initial`], [`until`]: where the material starts, when to stop.
 //! - [`run`]: one simulation and its summary.
 //! - [`report`]: the JSON contract.
@@ -27,8 +30,10 @@ pub mod fractions;
 pub mod initial;
 pub mod integrate;
 pub mod network;
+mod newton;
 pub mod report;
 pub mod run;
+mod sparse_lu;
 pub mod steady;
 pub mod until;
 

@@ -332,6 +332,80 @@ impl Network {
         }
     }
 
+    /// Every term of the analytic Jacobian at `x`, as `term(row, column,
+    /// value)`: each reaction's net flux differentiated by each state it
+    /// reads (product rule, as [`Network::jac_mul`]), given to each state its
+    /// flux changes. Terms come in the same order at every `x` (reaction
+    /// order), so a caller can find where each one goes once and then only
+    /// add; terms on one entry are to be summed. Used for the Jacobian
+    /// itself, where `jac_mul` would take one pass per column.
+    pub fn jacobian_terms(&self, x: &[f64], mut term: impl FnMut(usize, usize, f64)) {
+        self.flux_derivatives(x, |r, c, d| {
+            term(r.from, c, -d);
+            term(r.to, c, d);
+            if let Some(counter) = r.counter {
+                term(counter, c, d);
+            }
+            for &w in &r.forward_with {
+                term(self.free(w), c, -d);
+            }
+            for &w in &r.reverse_with {
+                term(self.free(w), c, d);
+            }
+        });
+    }
+
+    /// The column sums of the Jacobian at `x` into `out`: Σᵢ ∂fᵢ/∂x_c, the
+    /// rate at which total material changes with x_c. A step that takes
+    /// from one state what it gives to another contributes exactly zero (it
+    /// is not summed from its ± terms, which would leave rounding of the
+    /// size of its rate constant); only counters and co-reactants make it
+    /// non-zero. The LU of the Newton matrix uses it to compute pivots
+    /// without cancellation (see `sparse_lu`).
+    pub fn jacobian_column_sums(&self, x: &[f64], out: &mut [f64]) {
+        out.fill(0.0);
+        self.flux_derivatives(x, |r, c, d| {
+            let gained = r.counter.is_some() as usize + r.reverse_with.len();
+            let lost = r.forward_with.len();
+            if gained != lost {
+                out[c] += (gained as f64 - lost as f64) * d;
+            }
+        });
+    }
+
+    /// ∂(net flux of r)/∂x_c for every reaction r and every state c it reads
+    /// (each once), in reaction order.
+    fn flux_derivatives(&self, x: &[f64], mut each: impl FnMut(&Reaction, usize, f64)) {
+        // ∂/∂x_c of k·x_s·Π(x_w/c_w): the product rule along the unit vector e_c.
+        let side = |k: f64, s: usize, with: &[usize], c: usize| {
+            let (mut value, mut d) = (k * x[s], if s == c { k } else { 0.0 });
+            for &w in with {
+                let stated = self.coreactants[w].stated;
+                let dw = if self.free(w) == c { 1.0 / stated } else { 0.0 };
+                let xw = x[self.free(w)] / stated;
+                d = d * xw + value * dw;
+                value *= xw;
+            }
+            d
+        };
+        for r in &self.reactions {
+            let reads = [r.from, r.to].into_iter().chain(
+                r.forward_with
+                    .iter()
+                    .chain(&r.reverse_with)
+                    .map(|&w| self.free(w)),
+            );
+            for (i, c) in reads.clone().enumerate() {
+                if reads.clone().position(|other| other == c) != Some(i) {
+                    continue; // already differentiated by this state
+                }
+                let d =
+                    side(r.kf, r.from, &r.forward_with, c) - side(r.kr, r.to, &r.reverse_with, c);
+                each(r, c, d);
+            }
+        }
+    }
+
     /// Every entry of the Jacobian that can be non-zero, as (row, column),
     /// sorted by column then row: each state a rate reads (its side's state
     /// and co-reactants) against each state its flux changes. The same set a
@@ -618,5 +692,44 @@ mod tests {
         // The counter's row and the co-reactants' columns (W is state 3, B 4).
         assert!(probed.contains(&(2, 1)) && probed.contains(&(2, 4)));
         assert!(probed.contains(&(0, 3)) && probed.contains(&(1, 4)));
+    }
+
+    #[test]
+    fn jacobian_terms_and_column_sums_match_the_columns_of_jac_mul() {
+        // Source: closed form — column j of the Jacobian is J·e_j, which
+        // `jac_mul` computes by the product rule; the terms, summed per
+        // entry, must give the same matrix, on entries of the pattern only.
+        let mut net = network();
+        net.reactions[1].kr = 0.7;
+        let n = net.dim();
+        let x: Vec<f64> = (0..n).map(|i| 0.3 + 0.25 * i as f64).collect();
+        let mut summed = vec![0.0; n * n];
+        let pattern = net.jacobian_pattern();
+        net.jacobian_terms(&x, |row, column, value| {
+            assert!(pattern.contains(&(row, column)), "({row}, {column})");
+            summed[row + column * n] += value;
+        });
+        let mut sums = vec![0.0; n];
+        net.jacobian_column_sums(&x, &mut sums);
+        for j in 0..n {
+            let mut e = vec![0.0; n];
+            e[j] = 1.0;
+            let mut column = vec![0.0; n];
+            net.jac_mul(&x, &e, &mut column);
+            let total: f64 = column.iter().sum();
+            assert!(
+                (sums[j] - total).abs() <= 1e-14,
+                "column {j}: {} vs {total}",
+                sums[j]
+            );
+            for i in 0..n {
+                let got = summed[i + j * n];
+                assert!(
+                    (got - column[i]).abs() <= 1e-15 * column[i].abs().max(1.0),
+                    "({i}, {j}): {got} vs {}",
+                    column[i]
+                );
+            }
+        }
     }
 }
