@@ -39,8 +39,8 @@ enum Op {
     /// A stroke thin enough to be drawn as a hairline at the scale it was
     /// prepared for (tiny-skia draws those specially), kept as a stroke.
     Stroke(Path, Colour, Stroke),
-    /// Text: how much of each pixel its glyphs cover.
-    Coverage(Coverage, Colour),
+    /// Text: how much of each pixel its glyphs cover, glyph by glyph.
+    Coverage(Vec<Coverage>, Colour),
 }
 
 impl Page {
@@ -61,10 +61,10 @@ impl Page {
                 Item::Curve(c) => {
                     curve_path(c).and_then(|p| stroked(p, c.colour, c.width_pt, &c.dash, scale))
                 }
-                Item::Text(t) => text_path(t)
-                    .and_then(|p| p.transform(transform))
-                    .and_then(|p| Coverage::new(&p, &mut grid))
-                    .map(|c| Op::Coverage(c, t.colour)),
+                Item::Text(t) => Some(Op::Coverage(
+                    text_coverage(t, transform, &mut grid),
+                    t.colour,
+                )),
             };
             ops.extend(op);
         }
@@ -80,7 +80,11 @@ impl Page {
         let transform = self.scale.post_translate(0.0, -(first_row as f32));
         for op in &self.ops {
             match op {
-                Op::Coverage(coverage, colour) => coverage.paint(pixmap, first_row, *colour),
+                Op::Coverage(glyphs, colour) => {
+                    for g in glyphs {
+                        g.paint(pixmap, first_row, *colour);
+                    }
+                }
                 Op::Fill(path, colour) => {
                     pixmap.fill_path(path, &paint(*colour), FillRule::Winding, transform, None);
                 }
@@ -174,25 +178,31 @@ fn dash_pattern(dash: &[f64]) -> Option<tiny_skia::StrokeDash> {
     tiny_skia::StrokeDash::new(list, 0.0)
 }
 
-/// The outlines of every glyph of `t`, as one path in page mm.
-fn text_path(t: &Text) -> Option<Path> {
+/// The coverage of every glyph of `t` drawn with `transform` (mm to
+/// pixels), one tight block per glyph: far fewer pixels to fill and paint
+/// than one block around the whole text.
+fn text_coverage(
+    t: &Text,
+    transform: Transform,
+    grid: &mut ab_glyph_rasterizer::Rasterizer,
+) -> Vec<Coverage> {
     let placed = super::glyphs::place(t);
-    let mut pb = PathBuilder::new();
     OUTLINES.with(|cell| {
         let mut outlines = cell.borrow_mut();
         if outlines.len() >= MAX_OUTLINES {
             outlines.clear();
         }
-        for p in &placed {
-            let outline = outlines
-                .entry((p.face, p.glyph))
-                .or_insert_with(|| outline(p.face, p.glyph));
-            if let Some(path) = outline {
-                push_transformed(&mut pb, path, p.transform);
-            }
-        }
-    });
-    pb.finish()
+        placed
+            .iter()
+            .filter_map(|p| {
+                let outline = outlines
+                    .entry((p.face, p.glyph))
+                    .or_insert_with(|| outline(p.face, p.glyph));
+                let path = outline.as_ref()?;
+                Coverage::new(path, transform.pre_concat(p.transform), grid)
+            })
+            .collect()
+    })
 }
 
 /// How many glyph outlines a thread keeps before it starts over.
@@ -228,37 +238,6 @@ fn outline(face: Face, glyph: u16) -> Option<Path> {
     b.0.finish()
 }
 
-/// Appends `path` mapped through `ts` (an affine map keeps lines and Béziers
-/// what they are, so mapping the control points is exact).
-fn push_transformed(pb: &mut PathBuilder, path: &Path, ts: Transform) {
-    let map = |p: tiny_skia::Point| {
-        let mut q = [p];
-        ts.map_points(&mut q);
-        q[0]
-    };
-    for seg in path.segments() {
-        match seg {
-            PathSegment::MoveTo(p) => {
-                let p = map(p);
-                pb.move_to(p.x, p.y);
-            }
-            PathSegment::LineTo(p) => {
-                let p = map(p);
-                pb.line_to(p.x, p.y);
-            }
-            PathSegment::QuadTo(p1, p) => {
-                let (p1, p) = (map(p1), map(p));
-                pb.quad_to(p1.x, p1.y, p.x, p.y);
-            }
-            PathSegment::CubicTo(p1, p2, p) => {
-                let (p1, p2, p) = (map(p1), map(p2), map(p));
-                pb.cubic_to(p1.x, p1.y, p2.x, p2.y, p.x, p.y);
-            }
-            PathSegment::Close => pb.close(),
-        }
-    }
-}
-
 /// The coverage of a filled outline over a block of pixels, 0–255 each,
 /// computed once as exact areas (ab_glyph_rasterizer, the font-rs method):
 /// text is most of a figure's edges, and this is several times faster than
@@ -275,22 +254,53 @@ struct Coverage {
 }
 
 impl Coverage {
-    /// The coverage of `path` (in page pixels, closed contours, non-zero
-    /// winding as glyphs are drawn), or `None` when it has no area.
-    fn new(path: &Path, r: &mut ab_glyph_rasterizer::Rasterizer) -> Option<Coverage> {
+    /// The coverage of `path` mapped by `ts` into page pixels (closed
+    /// contours, non-zero winding as glyphs are drawn), or `None` when it has
+    /// no area.
+    fn new(
+        path: &Path,
+        ts: Transform,
+        r: &mut ab_glyph_rasterizer::Rasterizer,
+    ) -> Option<Coverage> {
         use ab_glyph_rasterizer::{Point, Rasterizer, point};
+        let map = |p: tiny_skia::Point| {
+            let mut q = [p];
+            ts.map_points(&mut q);
+            q[0]
+        };
+        // The mapped corners of the outline's box bound the mapped outline
+        // (an affine map keeps a Bézier inside its control points' hull).
         let b = path.bounds();
+        let corners = [
+            map(tiny_skia::Point::from_xy(b.left(), b.top())),
+            map(tiny_skia::Point::from_xy(b.right(), b.top())),
+            map(tiny_skia::Point::from_xy(b.left(), b.bottom())),
+            map(tiny_skia::Point::from_xy(b.right(), b.bottom())),
+        ];
+        let (mut left, mut top, mut right, mut bottom) = (f32::MAX, f32::MAX, f32::MIN, f32::MIN);
+        for c in corners {
+            left = left.min(c.x);
+            top = top.min(c.y);
+            right = right.max(c.x);
+            bottom = bottom.max(c.y);
+        }
+        if !(left.is_finite() && top.is_finite() && right.is_finite() && bottom.is_finite()) {
+            return None;
+        }
         // One spare pixel on every side: the rasterizer may touch the pixel
         // right of an edge.
-        let x0 = b.left().floor() as i64 - 1;
-        let y0 = b.top().floor() as i64 - 1;
-        let w = (b.right().ceil() as i64 - x0 + 2) as usize;
-        let h = (b.bottom().ceil() as i64 - y0 + 2) as usize;
+        let x0 = left.floor() as i64 - 1;
+        let y0 = top.floor() as i64 - 1;
+        let w = (right.ceil() as i64 - x0 + 2) as usize;
+        let h = (bottom.ceil() as i64 - y0 + 2) as usize;
         if w.checked_mul(h).is_none_or(|n| n > 1 << 28) {
             return None;
         }
         r.reset(w, h);
-        let at = |p: tiny_skia::Point| point(p.x - x0 as f32, p.y - y0 as f32);
+        let at = |p: tiny_skia::Point| {
+            let p = map(p);
+            point(p.x - x0 as f32, p.y - y0 as f32)
+        };
         let (mut start, mut last): (Option<Point>, Point) = (None, point(0.0, 0.0));
         let close = |r: &mut Rasterizer, start: Option<Point>, last: Point| {
             if let Some(s) = start.filter(|s| *s != last) {
