@@ -68,15 +68,16 @@ fn run_style(r: &Run, em: f64) -> (Face, f64, f64) {
 }
 
 /// The characters of runs as an SVG reader sees them: line breaks and tabs
-/// are spaces, and in text without styled runs (written without
+/// are spaces, characters XML forbids are U+FFFD, and in text without styled runs (written without
 /// `xml:space="preserve"`) runs of spaces are one space and the ends trimmed.
 fn svg_text(text: &str, preserve: bool) -> String {
     let mut out = String::with_capacity(text.len());
     for c in text.chars() {
-        let c = if matches!(c, '\r' | '\n' | '\t') {
-            ' '
-        } else {
-            c
+        let c = match c {
+            '\r' | '\n' | '\t' => ' ',
+            // What the SVG writer puts for a character XML forbids.
+            c if !super::xml::is_xml_char(c) => '\u{FFFD}',
+            c => c,
         };
         if !preserve && c == ' ' && (out.is_empty() || out.ends_with(' ')) {
             continue;
@@ -251,5 +252,100 @@ impl Glyph {
     /// Millimetres per font unit.
     fn scale(&self) -> f64 {
         self.size / f64::from(font::face(self.face).units_per_em())
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::layout::{Colour, Role, text};
+
+    fn label(lines: Vec<Vec<Run>>, anchor: Anchor, rotation: f64) -> Text {
+        Text {
+            x: 50.0,
+            y: 20.0,
+            lines,
+            size_pt: 7.0,
+            anchor,
+            colour: Colour::hex(0),
+            rotation,
+            role: Role::Label,
+            tag: None,
+        }
+    }
+
+    /// Where glyph `p`'s origin (font units 0, 0) lands on the page.
+    fn origin(p: &Placed) -> (f32, f32) {
+        (p.transform.tx, p.transform.ty)
+    }
+
+    #[test]
+    fn anchors_use_the_width_the_layout_measured() {
+        // SVG text-anchor: the line's advance is centred on x (middle) or
+        // ends at x (end); the layout measures that advance with the same
+        // shaper, so its width is the distance the glyphs span.
+        let s = "TS-recombination";
+        let w = text::width_mm(s, 7.0) as f32;
+        let middle = place(&label(vec![vec![Run::plain(s)]], Anchor::Middle, 0.0));
+        assert_eq!(middle.len(), s.chars().count());
+        assert!((origin(&middle[0]).0 - (50.0 - w / 2.0)).abs() < 1e-4);
+        let end = place(&label(vec![vec![Run::plain(s)]], Anchor::End, 0.0));
+        assert!((origin(&end[0]).0 - (50.0 - w)).abs() < 1e-4);
+        for p in &end {
+            assert_eq!(origin(p).1, 20.0, "on the baseline");
+        }
+        // Every glyph carries its character, for the PDF's text layer.
+        let chars: String = end.iter().map(|p| p.text.as_str()).collect();
+        assert_eq!(chars, s);
+    }
+
+    #[test]
+    fn scripts_are_smaller_and_shifted_and_lines_stack() {
+        let em = 7.0 * PT_MM;
+        let runs = vec![
+            Run::plain("H"),
+            Run {
+                text: "2".into(),
+                script: Script::Sub,
+                italic: false,
+            },
+            Run::plain("O"),
+        ];
+        let placed = place(&label(
+            vec![runs, vec![Run::plain("x")]],
+            Anchor::Start,
+            0.0,
+        ));
+        assert_eq!(placed.len(), 4);
+        let per_em = font::face(Face::Regular).units_per_em() as f64;
+        let scale = |p: &Placed| f64::from(p.transform.sx) * per_em;
+        assert!((scale(&placed[0]) - em).abs() < 1e-5);
+        assert!((scale(&placed[1]) - SCRIPT_SCALE * em).abs() < 1e-5);
+        let y = |p: &Placed| f64::from(origin(p).1);
+        assert!((y(&placed[1]) - (20.0 + SUB_DROP * em)).abs() < 1e-4);
+        assert!((y(&placed[2]) - 20.0).abs() < 1e-4, "back on the baseline");
+        assert!((y(&placed[3]) - (20.0 + LINE_HEIGHT * em)).abs() < 1e-4);
+        assert!(
+            (origin(&placed[3]).0 - 50.0).abs() < 1e-4,
+            "second line at x"
+        );
+    }
+
+    #[test]
+    fn rotation_turns_about_the_anchor_point() {
+        // rotate(-90 x y): a point d along the baseline goes to (x, y - d).
+        let s = "ΔG";
+        let flat = place(&label(vec![vec![Run::plain(s)]], Anchor::Start, 0.0));
+        let up = place(&label(vec![vec![Run::plain(s)]], Anchor::Start, -90.0));
+        let d = origin(&flat[1]).0 - 50.0;
+        assert!((origin(&up[1]).0 - 50.0).abs() < 1e-4);
+        assert!((origin(&up[1]).1 - (20.0 - d)).abs() < 1e-4);
+    }
+
+    #[test]
+    fn spaces_collapse_as_svg_readers_collapse_them() {
+        assert_eq!(svg_text("  a \t b\n", false), "a b");
+        assert_eq!(svg_text(" a\tb ", true), " a b ");
+        assert_eq!(svg_text("a\u{1}b", true), "a\u{FFFD}b");
     }
 }

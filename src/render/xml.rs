@@ -31,7 +31,7 @@ pub fn escape(s: &str) -> String {
 }
 
 /// True for characters allowed in an XML 1.0 document.
-fn is_xml_char(c: char) -> bool {
+pub(super) fn is_xml_char(c: char) -> bool {
     matches!(c, '\u{20}'..='\u{D7FF}' | '\u{E000}'..='\u{FFFD}' | '\u{10000}'..='\u{10FFFF}')
 }
 
