@@ -110,6 +110,10 @@ const NEWTON_MAXITER: usize = 4;
 /// `MAX_FACTOR`).
 const MIN_FACTOR: f64 = 0.2;
 const MAX_FACTOR: f64 = 10.0;
+/// Smallest growth of the step worth a change at an unchanged order.
+const MIN_GROWTH: f64 = 1.2;
+/// States per block of the history loops (a few vector registers).
+const BLOCK: usize = 8;
 /// κ of the NDFs (Shampine & Reichelt 1997, Table 1; order 5 is plain BDF).
 const KAPPA: [f64; MAX_ORDER + 1] = [0.0, -0.1850, -1.0 / 9.0, -0.0823, -0.0415, 0.0];
 
@@ -128,6 +132,77 @@ struct History {
 impl History {
     fn row(&self, k: usize) -> &[f64] {
         &self.d[k * self.n..(k + 1) * self.n]
+    }
+
+    /// y_predict = Σⱼ≤ₖ Dⱼ and ψ = Σ₁≤ⱼ≤ₖ gⱼ·Dⱼ (k the order), in blocks of
+    /// [`BLOCK`] states kept in registers across the rows: one read of each
+    /// difference and one write of each result (row-by-row passes would
+    /// read and write both sums k times, and stall where their addresses
+    /// alias modulo 4 KiB).
+    fn predict(&self, g: &[f64; MAX_ORDER + 1], y: &mut [f64], psi: &mut [f64]) {
+        let full = self.n / BLOCK * BLOCK;
+        for start in (0..full).step_by(BLOCK) {
+            self.predict_block::<BLOCK>(start, g, y, psi);
+        }
+        for start in full..self.n {
+            self.predict_block::<1>(start, g, y, psi);
+        }
+    }
+
+    fn predict_block<const L: usize>(
+        &self,
+        start: usize,
+        g: &[f64; MAX_ORDER + 1],
+        y: &mut [f64],
+        psi: &mut [f64],
+    ) {
+        let n = self.n;
+        let mut p = [0.0; L];
+        let mut s = [0.0; L];
+        p.copy_from_slice(&self.d[start..start + L]);
+        for (j, &gj) in g.iter().enumerate().take(self.order + 1).skip(1) {
+            let row = &self.d[j * n + start..j * n + start + L];
+            for k in 0..L {
+                p[k] += row[k];
+                s[k] += gj * row[k];
+            }
+        }
+        y[start..start + L].copy_from_slice(&p);
+        psi[start..start + L].copy_from_slice(&s);
+    }
+
+    /// The differences of an accepted step with correction d = y − y_predict
+    /// (scipy's update of D): D_{k+2} = d − D_{k+1}, D_{k+1} = d, then
+    /// Dᵢ += Dᵢ₊₁ downwards; by blocks, as [`History::predict`].
+    fn accept(&mut self, dsum: &[f64]) {
+        let full = self.n / BLOCK * BLOCK;
+        for start in (0..full).step_by(BLOCK) {
+            self.accept_block::<BLOCK>(start, dsum);
+        }
+        for start in full..self.n {
+            self.accept_block::<1>(start, dsum);
+        }
+    }
+
+    fn accept_block<const L: usize>(&mut self, start: usize, dsum: &[f64]) {
+        let (n, order) = (self.n, self.order);
+        let mut r = [0.0; L];
+        r.copy_from_slice(&dsum[start..start + L]);
+        let (lo, hi) = self.d.split_at_mut((order + 2) * n);
+        let next = &mut lo[(order + 1) * n + start..(order + 1) * n + start + L];
+        for ((e, dn), rk) in hi[start..start + L].iter_mut().zip(next.iter_mut()).zip(&r) {
+            *e = rk - *dn;
+            *dn = *rk;
+        }
+        for i in (0..=order).rev() {
+            for (x, rk) in lo[i * n + start..i * n + start + L]
+                .iter_mut()
+                .zip(r.iter_mut())
+            {
+                *rk += *x;
+                *x = *rk;
+            }
+        }
     }
 
     /// The interpolating polynomial of the last step at `t` (scipy's
@@ -313,6 +388,8 @@ pub fn integrate_with(
     let mut dsum = vec![0.0; n];
     let mut dy = vec![0.0; n];
     let mut w = vec![0.0; n];
+    let mut w_newton = vec![0.0; n];
+    weights(x0, atol, rtol, &mut w_newton);
     let mut scratch = vec![0.0; (MAX_ORDER + 1) * n];
 
     for _ in 0..MAX_STEPS {
@@ -340,16 +417,8 @@ pub fn integrate_with(
             hist.h = h;
             let order = hist.order;
             // Prediction, its weights, and ψ (the history term of the NDF).
-            y_predict.copy_from_slice(hist.row(0));
-            psi.fill(0.0);
-            for (j, gj) in gamma.iter().enumerate().take(order + 1).skip(1) {
-                let g = gj / alpha[order];
-                for ((p, s), dj) in y_predict.iter_mut().zip(psi.iter_mut()).zip(hist.row(j)) {
-                    *p += dj;
-                    *s += g * dj;
-                }
-            }
-            weights(&y_predict, atol, rtol, &mut w);
+            let g: [f64; MAX_ORDER + 1] = std::array::from_fn(|j| gamma[j] / alpha[order]);
+            hist.predict(&g, &mut y_predict, &mut psi);
             let c = h / alpha[order];
             let mut converged = false;
             let mut iterations;
@@ -376,7 +445,10 @@ pub fn integrate_with(
                         }
                     }
                     newton.solve(&mut dy);
-                    let norm = rms(&dy, &w);
+                    // A linear network converges in one iteration (below);
+                    // its correction needs no norm (an overflow shows in the
+                    // error norm).
+                    let norm = if linear_net { 0.0 } else { rms(&dy, &w_newton) };
                     if !norm.is_finite() {
                         break; // an overflow in f or in the solve
                     }
@@ -394,11 +466,9 @@ pub fn integrate_with(
                         break;
                     }
                     if k == 0 {
-                        for (((yi, di), o), p) in
-                            y.iter_mut().zip(dsum.iter_mut()).zip(&dy).zip(&y_predict)
-                        {
-                            *yi = p + o;
-                            *di = *o;
+                        std::mem::swap(&mut dsum, &mut dy);
+                        for ((yi, di), p) in y.iter_mut().zip(&dsum).zip(&y_predict) {
+                            *yi = p + di;
                         }
                     } else {
                         for ((yi, di), o) in y.iter_mut().zip(dsum.iter_mut()).zip(&dy) {
@@ -415,7 +485,11 @@ pub fn integrate_with(
                         // is not measured again.
                         None => eta = eta.max(1e4 * f64::EPSILON).powf(0.8),
                     }
-                    if norm == 0.0 || tiny || eta * norm < newton_tol {
+                    // A first-order network's f is linear and its Jacobian
+                    // exact, and the matrix is factorised at this c: one
+                    // iteration is a direct solve of the implicit equation
+                    // (as for a linear implicit problem in SUNDIALS' ARKODE).
+                    if norm == 0.0 || tiny || linear_net || eta * norm < newton_tol {
                         converged = true;
                         break;
                     }
@@ -430,8 +504,16 @@ pub fn integrate_with(
                 jac_current = true;
                 c_lu = f64::NAN;
             }
+            if converged {
+                weights(&y, atol, rtol, &mut w);
+                error_norm = error_const[order] * rms(&dsum, &w);
+                converged = error_norm.is_finite();
+            } else {
+                error_norm = f64::INFINITY;
+            }
             if !converged {
-                // Newton failed with a current Jacobian: halve the step.
+                // Newton failed with a current Jacobian (or the result
+                // overflowed): halve the step.
                 hist.change_step(0.5, &mut scratch);
                 h *= 0.5;
                 n_equal_steps = 0;
@@ -440,8 +522,6 @@ pub fn integrate_with(
             }
             safety =
                 0.9 * (2 * NEWTON_MAXITER + 1) as f64 / (2 * NEWTON_MAXITER + iterations) as f64;
-            weights(&y, atol, rtol, &mut w);
-            error_norm = error_const[order] * rms(&dsum, &w);
             if error_norm > 1.0 {
                 let factor = MIN_FACTOR.max(safety * error_norm.powf(-1.0 / (order + 1) as f64));
                 hist.change_step(factor, &mut scratch);
@@ -457,20 +537,7 @@ pub fn integrate_with(
         counts.steps += 1;
         n_equal_steps += 1;
         let order = hist.order;
-        {
-            let (lo, hi) = hist.d.split_at_mut((order + 2) * n);
-            let d_next = &lo[(order + 1) * n..];
-            for ((e, dn), di) in hi[..n].iter_mut().zip(d_next).zip(&dsum) {
-                *e = di - dn;
-            }
-        }
-        hist.d[(order + 1) * n..(order + 2) * n].copy_from_slice(&dsum);
-        for i in (0..=order).rev() {
-            let (lo, hi) = hist.d.split_at_mut((i + 1) * n);
-            for (a, b) in lo[i * n..].iter_mut().zip(&hi[..n]) {
-                *a += b;
-            }
-        }
+        hist.accept(&dsum);
         let t_prev = t;
         hist.t = t_new;
         if !linear_net {
@@ -485,6 +552,10 @@ pub fn integrate_with(
             history: &hist,
         };
         let flow = observe(&view)?;
+        // The weights of the accepted y serve the next step's Newton
+        // iterations (as CVODE's, fixed over a step; scipy takes them from
+        // the prediction, one more pass with a division per state).
+        std::mem::swap(&mut w_newton, &mut w);
         if flow == Flow::Stop || t_new >= t_end {
             return Ok((t_new, hist.row(0).to_vec()));
         }
@@ -495,12 +566,12 @@ pub fn integrate_with(
             continue;
         }
         let error_m = if order > 1 {
-            error_const[order - 1] * rms(hist.row(order), &w)
+            error_const[order - 1] * rms(hist.row(order), &w_newton)
         } else {
             f64::INFINITY
         };
         let error_p = if order < MAX_ORDER {
-            error_const[order + 1] * rms(hist.row(order + 2), &w)
+            error_const[order + 1] * rms(hist.row(order + 2), &w_newton)
         } else {
             f64::INFINITY
         };
@@ -515,8 +586,17 @@ pub fn integrate_with(
                 best = k;
             }
         }
-        hist.order = order + best - 1;
         let factor = MAX_FACTOR.min(safety * factors[best]);
+        // A small gain at the same order is not taken (a departure from
+        // scipy, which changes h at every chance): each change costs a
+        // rescaling of the differences and a new factorisation, and
+        // growth by less than 20 % saves fewer steps than that (at 1000
+        // states: 6 % more steps, 41 % fewer factorisations).
+        if best == 1 && (1.0..MIN_GROWTH).contains(&factor) {
+            n_equal_steps = 0;
+            continue;
+        }
+        hist.order = order + best - 1;
         hist.change_step(factor, &mut scratch);
         h *= factor;
         n_equal_steps = 0;
