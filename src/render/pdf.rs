@@ -22,6 +22,12 @@ const PT_PER_MM: f32 = (72.0 / 25.4) as f32;
 /// default is 10).
 const MITER_LIMIT: f32 = 4.0;
 
+/// zlib compression level for the PDF's streams. Demo: level 1 gives
+/// 18.8 kB for 1.7 M more instructions than fdeflate's 47 kB (which only
+/// codes runs of zeros and fixed literals, so a font barely shrinks); level
+/// 6 gives 15.5 kB for 4.9 M.
+const LEVEL: u8 = 1;
+
 const SYSTEM_INFO: SystemInfo = SystemInfo {
     registry: Str(b"Adobe"),
     ordering: Str(b"Identity"),
@@ -111,13 +117,18 @@ pub fn to_pdf(scene: &Scene) -> Result<Vec<u8>, RenderError> {
             dict.pair(Name(name.as_bytes()), *id);
         }
     }
-    let data = fdeflate::compress_to_vec(&content.finish());
+    let data = deflate(&content.finish());
     pdf.stream(contents, &data).filter(Filter::FlateDecode);
     for (_, id, i) in fonts {
         let face = if i == 0 { Face::Regular } else { Face::Italic };
         write_font(&mut pdf, id, face, &used[i], &mut alloc)?;
     }
     Ok(pdf.finish())
+}
+
+/// `data` as a zlib stream (PDF's FlateDecode).
+fn deflate(data: &[u8]) -> Vec<u8> {
+    miniz_oxide::deflate::compress_to_vec_zlib(data, LEVEL)
 }
 
 /// The resource name of face number `i`.
@@ -260,7 +271,7 @@ fn write_font(
     };
     let subset = subsetter::subset(data, 0, &used.remapper)
         .map_err(|e| RenderError::Pdf(format!("the bundled font could not be subset: {e}")))?;
-    pdf.stream(program, &fdeflate::compress_to_vec(&subset))
+    pdf.stream(program, &deflate(&subset))
         .filter(Filter::FlateDecode);
     Ok(())
 }
