@@ -60,6 +60,15 @@ pub struct Species {
     pub in_cycle: bool,
 }
 
+/// Workspace of [`Network::settled_in`]: net rates, gross fluxes and the
+/// rate-constant scale of each state.
+#[derive(Debug, Clone, Default)]
+pub struct SettledWork {
+    dx: Vec<f64>,
+    gross: Vec<f64>,
+    kscale: Vec<f64>,
+}
+
 /// A co-reactant that some step consumes: a species of its own, after the
 /// minima in the state vector.
 #[derive(Debug, Clone, PartialEq)]
@@ -529,27 +538,49 @@ impl Network {
     /// state of a catalytic cycle). `atol` is the concentration below which a
     /// state counts as empty.
     pub fn settled(&self, x: &[f64], rel: f64, atol: f64) -> bool {
+        self.settled_in(x, rel, atol, &mut SettledWork::default())
+    }
+
+    /// [`Network::settled`] with its workspace kept by the caller: asked
+    /// after every step, it then allocates nothing, and takes one pass over
+    /// the reactions (the net rates are summed as [`Network::rhs`] sums them,
+    /// in the same pass as the gross fluxes).
+    pub fn settled_in(&self, x: &[f64], rel: f64, atol: f64, work: &mut SettledWork) -> bool {
         let n = self.dim();
-        let mut dx = vec![0.0; n];
-        let mut gross = vec![0.0; n];
-        let mut kscale = vec![0.0; n];
-        for r in &self.reactions {
-            let (f, b) = self.rates(r, x);
-            let sides = [r.from, r.to].into_iter().chain(
-                r.forward_with
-                    .iter()
-                    .chain(&r.reverse_with)
-                    .map(|&w| self.free(w)),
-            );
-            for i in sides {
-                gross[i] += f.abs() + b.abs();
-                kscale[i] += r.kf + r.kr;
+        if work.kscale.len() != n {
+            work.kscale = vec![0.0; n];
+            for r in &self.reactions {
+                for i in self.sides(r) {
+                    work.kscale[i] += r.kf + r.kr;
+                }
             }
         }
-        self.rhs(x, &mut dx);
+        work.dx.clear();
+        work.dx.resize(n, 0.0);
+        work.gross.clear();
+        work.gross.resize(n, 0.0);
+        for r in &self.reactions {
+            let (f, b) = self.rates(r, x);
+            self.apply(r, f - b, &mut work.dx);
+            for i in self.sides(r) {
+                work.gross[i] += f.abs() + b.abs();
+            }
+        }
+        let (dx, gross, kscale) = (&work.dx, &work.gross, &work.kscale);
         (0..n)
             .filter(|&i| i >= self.len() || !self.species[i].counter)
             .all(|i| dx[i].abs() <= rel * gross[i] + atol * kscale[i])
+    }
+
+    /// The states a reaction's rates read: its two sides and the
+    /// co-reactants either direction consumes.
+    fn sides(&self, r: &Reaction) -> impl Iterator<Item = usize> {
+        [r.from, r.to].into_iter().chain(
+            r.forward_with
+                .iter()
+                .chain(&r.reverse_with)
+                .map(|&w| self.free(w)),
+        )
     }
 
     /// The same network with point `point` lowered by `delta_rt` (in units of

@@ -2,21 +2,19 @@
 //! analytic Jacobian J, and the Newton matrix I − cJ factorised and solved
 //! with.
 //!
-//! Small systems keep J dense and use nalgebra's LU with partial pivoting;
-//! from [`SPARSE_FROM`] states on, J lives on the pattern read off the
-//! reactions ([`Network::jacobian_pattern`], plus the diagonal) and the
-//! Newton matrix goes to the sparse LU of [`super::sparse_lu`], whose cost
-//! grows with the number of reactions rather than with the cube of the number
-//! of states.
+//! J lives on the pattern read off the reactions
+//! ([`Network::jacobian_pattern`], plus the diagonal) and the Newton matrix
+//! goes to the sparse LU of [`super::sparse_lu`], at every size: its cost
+//! grows with the number of reactions rather than with the cube of the
+//! number of states, and its pivots come from exact column sums, which keeps
+//! them accurate where c·k passes 1/ε. A dense J with nalgebra's LU is kept
+//! as an independent check of the sparse one (tests, benchmarks); its
+//! pivots lose that accuracy in long runs with fast equilibria.
 
 use super::network::Network;
 use super::sparse_lu::SparseFactors;
 use faer::sparse::{SparseColMat, SymbolicSparseColMat};
 use nalgebra::{DMatrix, DVectorViewMut, Dyn, LU};
-
-/// Size (ODE dimension) from which the sparse Jacobian and LU are used.
-/// Below it dense LU of a tiny matrix is cheaper than sparse bookkeeping.
-pub const SPARSE_FROM: usize = 40;
 
 /// The right-hand side of a network, with its first-order steps packed.
 pub(super) struct Rhs<'a> {

@@ -5,7 +5,7 @@
 use super::SimulateError;
 use super::initial::Initial;
 use super::integrate::{Flow, StepView, Tolerances, integrate};
-use super::network::Network;
+use super::network::{Network, SettledWork};
 use super::until::Until;
 use crate::kinetics;
 use crate::model::{Model, PointId};
@@ -153,6 +153,7 @@ pub fn simulate_network(
     } else {
         Stopped::TimeLimit
     };
+    let mut settled_work = SettledWork::default();
     let mut observe = |step: &StepView<'_>| -> Result<Flow, SimulateError> {
         let mut flow = Flow::Continue;
         let mut x = step.x.to_vec();
@@ -171,7 +172,7 @@ pub fn simulate_network(
         }
         if flow == Flow::Continue
             && !matches!(options.until, Until::Time(_))
-            && network.settled(step.x, SETTLED_REL, atol)
+            && network.settled_in(step.x, SETTLED_REL, atol, &mut settled_work)
         {
             stopped = Stopped::Equilibrium;
             flow = Flow::Stop;
