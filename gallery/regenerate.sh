@@ -21,8 +21,9 @@ for profile in profiles/*.toml; do
     hartree-absolute) extra=(--annotate barriers --unit kcal/mol) ;;
     # The isotopologue and the co-catalyst drawn over the profile.
     hydride-transfer) extra=(--variants all) ;;
-    # More than about 16 states need the full page width.
-    dense-network) extra=(--size double --axis-break) ;;
+    # More than about 16 states need the full page width, and 25 states with
+    # their names clear of every line a little more than 90 mm of height.
+    dense-network) extra=(--size double --height 120 --axis-break) ;;
     *) extra=(--annotate barriers --connectors smooth) ;;
   esac
   "$eyrie" render "$profile" -o "gallery/$name.svg" "${extra[@]}"

@@ -18,7 +18,7 @@ use eyrie::model::Model;
 use eyrie::render::to_svg;
 use std::path::Path;
 
-fn profiles() -> Vec<(String, Model)> {
+pub(crate) fn profiles() -> Vec<(String, Model)> {
     let root = Path::new(env!("CARGO_MANIFEST_DIR"));
     let mut files: Vec<_> = std::fs::read_dir(root.join("profiles"))
         .unwrap()
@@ -45,7 +45,7 @@ fn profiles() -> Vec<(String, Model)> {
 
 /// Plain and with every annotation, at single- and double-column width,
 /// and annotated on a slide.
-fn settings() -> Vec<(&'static str, FigureOptions)> {
+pub(crate) fn settings() -> Vec<(&'static str, FigureOptions)> {
     let at = |preset: &str, o: FigureOptions| FigureOptions {
         preset: preset.into(),
         ..o
@@ -68,7 +68,7 @@ fn scene_at(model: &Model, options: &FigureOptions) -> (Scene, eyrie::layout::Cr
 }
 
 /// The box a horizontal bar of `width_pt` covers (butt ends: no overhang).
-fn bar_box(points: &[(f64, f64)], width_pt: f64) -> Rect {
+pub(crate) fn bar_box(points: &[(f64, f64)], width_pt: f64) -> Rect {
     let half = width_pt * 25.4 / 72.0 / 2.0;
     let xs = points.iter().map(|p| p.0);
     let y = points[0].1;
@@ -141,7 +141,7 @@ fn no_text_overlaps_covers_a_bar_or_leaves_the_page_in_any_profile() {
 
 /// Every profile and setting, and the profile with variants drawn over it
 /// (plain and annotated): the scenes the figure checks below look at.
-fn every_scene() -> Vec<(String, Scene, eyrie::layout::Crowding)> {
+pub(crate) fn every_scene() -> Vec<(String, Scene, eyrie::layout::Crowding)> {
     let mut out = Vec::new();
     for (name, model) in profiles() {
         for (setting, options) in settings() {
@@ -350,8 +350,9 @@ fn annotations_appear_where_the_analysis_has_them() {
 }
 
 /// Every value sits right over or under its own bar (within
-/// `layout::ATTACH_MM`, horizontally overlapping it) or has a leader line of
-/// its own point that ends on the value's box.
+/// `layout::ATTACH_MM`, horizontally overlapping it, its own label stacked in
+/// between allowed), right beside one of its ends (within 1 mm, level with
+/// it) or has a leader line of its own point that ends on the value's box.
 #[test]
 fn every_value_sits_on_its_bar_or_has_a_leader() {
     let mut problems = Vec::new();
@@ -369,10 +370,30 @@ fn every_value_sits_on_its_bar_or_has_a_leader() {
                     continue;
                 };
                 let (x0, x1) = (bar.points[0].0, bar.points[1].0);
+                let (x0, x1) = (x0.min(x1), x0.max(x1));
                 let y = bar.points[0].1;
-                let gap = (b.y0 - y).max(y - b.y1).max(0.0);
-                let on_bar =
-                    b.x1 > x0.min(x1) && b.x0 < x0.max(x1) && gap <= eyrie::layout::ATTACH_MM;
+                let mut gap = (b.y0 - y).max(y - b.y1).max(0.0);
+                // Its own label stacked between value and bar reads as one
+                // block with it: the label's height and the line gap of a
+                // stack (0.6 mm) do not count.
+                for l in scene
+                    .texts()
+                    .filter(|t| t.role == Role::Label && t.tag == v.tag)
+                {
+                    let r = l.bbox();
+                    let between = if b.y1 <= y {
+                        r.y0 >= b.y1 && r.y1 <= y
+                    } else {
+                        r.y1 <= b.y0 && r.y0 >= y
+                    };
+                    if between && r.x1 > x0 && r.x0 < x1 {
+                        gap -= r.y1 - r.y0 + 0.6;
+                    }
+                }
+                // Level with the bar, right beside one of its ends.
+                let side_gap = (b.x0 - x1).max(x0 - b.x1);
+                let beside = b.y0 < y && y < b.y1 && (0.0..=1.0).contains(&side_gap);
+                let on_bar = beside || (b.x1 > x0 && b.x0 < x1 && gap <= eyrie::layout::ATTACH_MM);
                 let led = scene.items.iter().any(|i| match i {
                     Item::Line(l) if l.role == Role::Leader && l.tag == v.tag => {
                         let end = *l.points.last().unwrap();
@@ -407,8 +428,9 @@ fn every_value_sits_on_its_bar_or_has_a_leader() {
 /// single column, plain and annotated, and all its plain texts; annotated, it
 /// may leave out an annotation, and then the warning names it and the
 /// double-column size. The 25-state one at single width leaves texts out
-/// and says that the double-column size helps, and at double width holds
-/// all its plain texts.
+/// and says that the double-column size helps; at 175 × 90 mm it may still
+/// leave out a few names hemmed in by lines, and says a larger page helps
+/// (at the gallery's 175 × 120 mm it holds everything, see `layout_lines`).
 #[test]
 fn a_crowded_page_leaves_text_out_only_with_a_warning_naming_the_remedy() {
     for (name, model) in profiles() {
@@ -441,8 +463,19 @@ fn a_crowded_page_leaves_text_out_only_with_a_warning_naming_the_remedy() {
                         assert!(w.contains(t.as_str()) || w.contains("more"), "{w}");
                     }
                 }
-            } else if !dense || setting == "plain-double" {
+            } else if !dense {
                 assert_eq!(warning, None, "{name}/{setting}");
+            } else if let Some(w) = warning {
+                // 175 × 90 mm is not quite enough for 25 states and their
+                // names clear of every line (the gallery draws it taller,
+                // see `layout_lines`): it says so.
+                assert!(
+                    w.contains("larger --width/--height"),
+                    "{name}/{setting}: {w}"
+                );
+                if !annotated {
+                    assert!(crowding.left_out.len() <= 3, "{name}/{setting}: {w}");
+                }
             }
         }
     }

@@ -15,6 +15,7 @@ mod corrections_in_profiles;
 mod cycle_steady_state;
 mod doc_examples;
 mod export;
+mod layout_lines;
 mod layout_profiles;
 mod no_panic;
 mod plot_cli;

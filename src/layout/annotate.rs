@@ -142,7 +142,15 @@ pub fn draw(a: &Annotation, g: &Geometry<'_>, style: &Style) -> Vec<Drawn> {
 /// True when drawing `d` crosses none of the `blocked` boxes (placed texts,
 /// bars): its marks may touch bars only at their ends, its guides only where
 /// they start.
-pub fn clear_of(d: &Drawn, blocked: &[Rect]) -> bool {
+pub fn clear_of(d: &Drawn, blocked: &[Rect], leaders: &[((f64, f64), (f64, f64))]) -> bool {
+    let leader_clear = leaders.iter().all(|&(p, q)| {
+        d.hard
+            .iter()
+            .all(|h| !super::place::segment_hits_rect(p, q, h))
+            && d.soft
+                .iter()
+                .all(|&(a, z)| !super::place::segments_cross(p, q, a, z))
+    });
     let marks_clear = d.hard.iter().all(|h| {
         let inner = Rect {
             y0: h.y0 + 0.6,
@@ -157,7 +165,8 @@ pub fn clear_of(d: &Drawn, blocked: &[Rect]) -> bool {
         x1: x,
         y1: y,
     };
-    marks_clear
+    leader_clear
+        && marks_clear
         && d.soft.iter().all(|&(a, z)| {
             blocked.iter().all(|b| {
                 b.inflate(0.05).contains(&point(a))

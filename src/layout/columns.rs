@@ -111,12 +111,19 @@ pub fn assign(
         }
         let (a, b) = (col[start] - least, aligned[w] - least);
         let k = run.len() as f64 + 1.0;
+        // No more than `MAX_SPREAD` columns a step: a short side branch
+        // ending far right (its end aligned with the products) stays near
+        // where it leaves, not in the middle of the busy branches.
+        let b = b.min(a + MAX_SPREAD * k);
         for (i, &r) in run.iter().enumerate() {
             out[r] = Some(a + (b - a) * (i as f64 + 1.0) / k);
         }
     }
     out
 }
+
+/// Longest step (in columns) of a spread run of pass-through points.
+const MAX_SPREAD: f64 = 2.0;
 
 /// The path graph in topological order, with its pins.
 struct Graph<'a> {

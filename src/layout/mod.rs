@@ -206,13 +206,38 @@ pub fn layout_report(spec: &DiagramSpec, style: &Style) -> (Scene, Crowding) {
         // the least important annotation gives up its room.
         // If that does not help (a page too small even for its labels), all
         // annotations stay.
-        let pass = |spec: &DiagramSpec| {
-            let (scene, fit) = build(spec, &s, 0.0);
+        let once = |spec: &DiagramSpec, first: &[(Role, usize)]| {
+            let (scene, fit) = build(spec, &s, 0.0, first);
             if fit.legend {
                 return (scene, fit);
             }
             let entries = legend::entries(&overlay::legend_spec(spec), &s);
-            build(spec, &s, legend::strip_height(&entries, &s))
+            build(spec, &s, legend::strip_height(&entries, &s), first)
+        };
+        // Placement is greedy: a label that found no spot may find one when
+        // it goes before the neighbours that took its room (they then look
+        // for theirs around it).
+        let pass = |spec: &DiagramSpec| {
+            let mut first: Vec<(Role, usize)> = Vec::new();
+            let (mut scene, mut fit) = once(spec, &first);
+            let mut last = fit.missing.clone();
+            for _ in 0..REORDER_TRIES {
+                let new: Vec<(Role, usize)> = last
+                    .iter()
+                    .copied()
+                    .filter(|i| !first.contains(i))
+                    .collect();
+                if new.is_empty() {
+                    break;
+                }
+                first.extend(new);
+                let (sc, f) = once(spec, &first);
+                last = f.missing.clone();
+                if f.left_out.len() < fit.left_out.len() {
+                    (scene, fit) = (sc, f);
+                }
+            }
+            (scene, fit)
         };
         let (mut scene, mut fit) = pass(spec);
         let mut left_out: Vec<String> = Vec::new();
@@ -322,6 +347,19 @@ pub const MIN_LEGIBLE_PT: f64 = 6.0;
 /// spaces at 7 pt.
 const WORD_GAP: f64 = 1.2;
 
+/// How far (mm) an annotation's text may move from its mark, with a short
+/// leader, when no spot right beside it is clear: farther, it reads as
+/// belonging to something else.
+const ANNOTATION_RING: f64 = 6.0;
+
+/// How many times a pass is redone with the texts that found no spot
+/// placed first.
+const REORDER_TRIES: usize = 8;
+
+/// Extra width (in columns) a column gets for each side-by-side slot past
+/// the first.
+const SLOT_WIDTH: f64 = 1.0;
+
 /// Thickness of the band behind a highlighted bar, in bar thicknesses.
 const HIGHLIGHT: f64 = 2.2;
 
@@ -331,6 +369,8 @@ struct Fit {
     left_out: Vec<String>,
     /// How many of them are values or labels (not annotation texts).
     points_left_out: usize,
+    /// The values and labels (by point) that found no spot.
+    missing: Vec<(Role, usize)>,
     /// The legend (if needed) found a free spot.
     legend: bool,
 }
@@ -378,7 +418,12 @@ pub(super) fn plain_line(
 }
 
 /// One laid-out pass.
-fn build(spec: &DiagramSpec, style: &Style, legend_strip: f64) -> (Scene, Fit) {
+fn build(
+    spec: &DiagramSpec,
+    style: &Style,
+    legend_strip: f64,
+    first: &[(Role, usize)],
+) -> (Scene, Fit) {
     let n = spec.points.len();
     let drawable: Vec<bool> = spec.points.iter().map(|p| p.value.is_finite()).collect();
     // Paths restricted to drawable points, keeping each path's own index
@@ -470,17 +515,10 @@ fn build(spec: &DiagramSpec, style: &Style, legend_strip: f64) -> (Scene, Fit) {
         }
     }
     let ncols = next.max(1.0);
-    let col_w = (plot_x1 - plot_x0) / ncols;
-    let base_bar = style.bar_length(col_w);
-    let mut x = vec![0.0; n];
-    let mut bar_w = vec![base_bar; n];
-    for i in 0..n {
-        if let Some(c) = cols[i] {
-            x[i] = plot_x0 + (c + 0.5) * col_w;
-        }
-    }
     // Points sharing a column whose texts would stack into each other get
-    // side-by-side sub-slots.
+    // side-by-side sub-slots, and their column gets wider (see
+    // `SLOT_WIDTH`): branches fanning out from one state would otherwise
+    // squeeze their bars and texts into one column's width.
     let up = text_h(style.value_pt) + 0.6;
     let down = text_h(style.label_pt) + 0.6;
     let mut order: Vec<usize> = (0..n).filter(|&i| cols[i].is_some()).collect();
@@ -490,6 +528,8 @@ fn build(spec: &DiagramSpec, style: &Style, legend_strip: f64) -> (Scene, Fit) {
             .total_cmp(&cols[b].unwrap())
             .then(a.cmp(&b))
     });
+    // (members with their slot, number of slots, mean column)
+    let mut clusters: Vec<(Vec<(usize, usize)>, usize, f64)> = Vec::new();
     let mut start = 0;
     while start < order.len() {
         let mut end = start + 1;
@@ -500,7 +540,7 @@ fn build(spec: &DiagramSpec, style: &Style, legend_strip: f64) -> (Scene, Fit) {
         let mut cluster: Vec<usize> = order[start..end].to_vec();
         cluster.sort_by(|&a, &b| y[a].total_cmp(&y[b]).then(a.cmp(&b)));
         let mut slot_bottom: Vec<f64> = Vec::new();
-        let mut slot_of = Vec::new();
+        let mut members = Vec::new();
         for &p in &cluster {
             let top = y[p] - up;
             let s = match slot_bottom.iter().position(|&b| b <= top) {
@@ -511,25 +551,86 @@ fn build(spec: &DiagramSpec, style: &Style, legend_strip: f64) -> (Scene, Fit) {
                 }
             };
             slot_bottom[s] = y[p] + down;
-            slot_of.push(s);
+            members.push((p, s));
         }
+        // Slots left to right in the order of their points' own columns, so
+        // a path through the cluster does not double back.
         let k = slot_bottom.len();
-        if k > 1 {
+        let mut slot_col: Vec<(f64, usize)> = (0..k)
+            .map(|s| {
+                let own: Vec<f64> = members
+                    .iter()
+                    .filter(|m| m.1 == s)
+                    .map(|m| cols[m.0].unwrap())
+                    .collect();
+                (own.iter().sum::<f64>() / own.len() as f64, s)
+            })
+            .collect();
+        slot_col.sort_by(|a, b| a.0.total_cmp(&b.0).then(a.1.cmp(&b.1)));
+        let mut rank = vec![0; k];
+        for (r, &(_, s)) in slot_col.iter().enumerate() {
+            rank[s] = r;
+        }
+        for m in &mut members {
+            m.1 = rank[m.1];
+        }
+        let mean = cluster.iter().map(|&p| cols[p].unwrap()).sum::<f64>() / cluster.len() as f64;
+        clusters.push((members, k, mean));
+        start = end;
+    }
+    // Width of each column cell, in plain columns.
+    let cells = ncols.ceil() as usize;
+    let mut weight = vec![1.0f64; cells.max(1)];
+    let last_cell = weight.len() - 1;
+    let cell_of = |c: f64| (c.max(0.0).floor() as usize).min(last_cell);
+    for (_, k, mean) in &clusters {
+        let w = 1.0 + SLOT_WIDTH * (*k as f64 - 1.0);
+        let cell = cell_of(*mean);
+        weight[cell] = weight[cell].max(w);
+    }
+    let col_w = (plot_x1 - plot_x0) / weight.iter().sum::<f64>();
+    let before: Vec<f64> = weight
+        .iter()
+        .scan(0.0, |acc, w| {
+            let b = *acc;
+            *acc += w;
+            Some(b)
+        })
+        .collect();
+    // x of column coordinate `c` (a cell's centre is at c + 0.5).
+    let x_at = |c: f64| {
+        let cell = cell_of(c);
+        plot_x0 + col_w * (before[cell] + (c - cell as f64).clamp(0.0, 1.0) * weight[cell])
+    };
+    let base_bar = style.bar_length(col_w);
+    let mut x = vec![0.0; n];
+    let mut bar_w = vec![base_bar; n];
+    for i in 0..n {
+        if let Some(c) = cols[i] {
+            x[i] = x_at(c + 0.5);
+        }
+    }
+    for (members, k, mean) in &clusters {
+        if *k > 1 {
             // Slots share the cluster's mean position, so they stay inside
             // the column cell (and the page) whatever their own columns.
-            let centre = cluster.iter().map(|&p| x[p]).sum::<f64>() / cluster.len() as f64;
-            let sub = col_w / k as f64;
-            for (&p, &s) in cluster.iter().zip(&slot_of) {
-                x[p] = centre + (s as f64 - (k as f64 - 1.0) / 2.0) * sub;
+            let centre = x_at(mean + 0.5);
+            let sub = col_w * weight[cell_of(*mean)] / *k as f64;
+            for &(p, s) in members {
+                x[p] = centre + (s as f64 - (*k as f64 - 1.0) / 2.0) * sub;
                 bar_w[p] = bar_w[p].min(0.8 * sub);
             }
         }
-        start = end;
     }
 
     let mut items: Vec<Item> = Vec::new();
+    // Every line a text must keep clear of (connectors added below).
+    let mut segments = Vec::new();
+    let mut guides = Vec::new();
     // Zero line, under everything.
     if style.zero_line && !values.is_empty() && scale.shows(0.0) {
+        segments.push(((plot_x0, y_of(0.0)), (plot_x1, y_of(0.0))));
+        guides.push(((plot_x0, y_of(0.0)), (plot_x1, y_of(0.0))));
         items.push(plain_line(
             vec![(plot_x0, y_of(0.0)), (plot_x1, y_of(0.0))],
             style.zero_colour,
@@ -549,6 +650,7 @@ fn build(spec: &DiagramSpec, style: &Style, legend_strip: f64) -> (Scene, Fit) {
     for yb in scale.breaks() {
         // Two parallel slanted strokes across the axis, the cut between them.
         for dy in [-0.6, 0.6] {
+            segments.push(((axis_x - 1.0, yb + dy + 0.5), (axis_x + 1.0, yb + dy - 0.5)));
             items.push(plain_line(
                 vec![(axis_x - 1.0, yb + dy + 0.5), (axis_x + 1.0, yb + dy - 0.5)],
                 style.ink,
@@ -610,7 +712,6 @@ fn build(spec: &DiagramSpec, style: &Style, legend_strip: f64) -> (Scene, Fit) {
 
     // Connectors: each unordered pair of points once, in its first path's style.
     let mut drawn: Vec<(usize, usize)> = Vec::new();
-    let mut segments = Vec::new();
     for (pi, via) in &paths {
         for w in via.windows(2) {
             let (a, b) = (w[0], w[1]);
@@ -667,6 +768,7 @@ fn build(spec: &DiagramSpec, style: &Style, legend_strip: f64) -> (Scene, Fit) {
         blocked: fixed_texts.iter().map(Text::bbox).collect(),
         segments,
         leaders: Vec::new(),
+        guides,
     };
     let mut bars = Vec::new();
     for i in 0..n {
@@ -742,6 +844,7 @@ fn build(spec: &DiagramSpec, style: &Style, legend_strip: f64) -> (Scene, Fit) {
         if let Some(d) = alternatives.first() {
             placer.blocked.extend(d.hard.iter().copied());
             placer.segments.extend(d.soft.iter().copied());
+            placer.guides.extend(d.soft.iter().copied());
             marks.push((a, alternatives));
         }
     }
@@ -758,18 +861,17 @@ fn build(spec: &DiagramSpec, style: &Style, legend_strip: f64) -> (Scene, Fit) {
     let mut placed_texts = Vec::new();
     let mut left_out = Vec::new();
     let mut points_left_out = 0;
+    let mut missing = Vec::new();
     let mut settle = |placer: &mut Placer,
                       cands: &[place::Candidate],
                       origin: (f64, f64),
                       bar: Option<(f64, f64, f64)>,
+                      half: f64,
+                      ring: f64,
                       role: Role,
                       tag: Option<Tag>| {
         // A leader may start anywhere along the bar but its last quarter.
         let reach = bar.map_or(0.0, |(x0, x1, _)| (x1 - x0) / 4.0);
-        // A text read across a line is easily misread: an annotation's
-        // number goes only where no connector, guide or leader crosses it;
-        // a value or label, too, if such a spot is near, else where it
-        // crosses fewest.
         let own: Vec<Rect> = placed_texts
             .iter()
             .filter_map(|t| match t {
@@ -777,36 +879,27 @@ fn build(spec: &DiagramSpec, style: &Style, legend_strip: f64) -> (Scene, Fit) {
                 _ => None,
             })
             .collect();
-        // A near spot that does not read as attached to its bar gets a
-        // leader; one whose leader would cut through a bar or text is
-        // dropped from the list and the choice made again.
-        let mut pool: Option<Vec<place::Candidate>> = None;
-        let chosen = loop {
-            let list = pool.as_deref().unwrap_or(cands);
-            let found = match placer.choose_clear(list, origin, reach) {
-                None if role != Role::AnnotationText => placer.choose_from(list, origin, reach),
-                found => found,
-            };
-            let Some(c) = found else {
-                // No free spot: left out (and reported) rather than drawn
-                // on top of something.
-                let lines: Vec<String> = cands
-                    .first()
-                    .map(|c| c.lines.iter().map(|l| rich::plain(l)).collect())
-                    .unwrap_or_default();
-                return Err(lines.join(" "));
-            };
-            let r = c.bbox();
-            let strays = bar.is_some_and(|b| !place::attached(&r, b, &own));
-            if !c.leader && strays {
-                let (from, to) = place::leader(origin, reach, &r);
-                if placer.leader_cuts(from, to) {
-                    pool = Some(list.iter().filter(|x| **x != c).cloned().collect());
-                    continue;
-                }
-            }
-            break c;
+        let owner = place::Owner {
+            origin,
+            reach,
+            bar,
+            own: &own,
+            half,
         };
+        // A text read across a line is easily misread, and a leader across
+        // a line points at the wrong owner: every text goes only where no
+        // connector, guide, zero line or leader crosses it or its leader.
+        let Some(chosen) = placer.choose_clear(cands, &owner, ring) else {
+            // No clear spot: left out (and reported, with the option that
+            // gives the figure room) rather than drawn through a line.
+            let lines: Vec<String> = cands
+                .first()
+                .map(|c| c.lines.iter().map(|l| rich::plain(l)).collect())
+                .unwrap_or_default();
+            return Err(lines.join(" "));
+        };
+        let needs_leader = chosen.leader;
+        let chosen = chosen.candidate;
         let r = chosen.bbox();
         // Side by side, two texts need more than a word space between them
         // or they read as one ("bicyclic adduct open adduct").
@@ -817,9 +910,8 @@ fn build(spec: &DiagramSpec, style: &Style, legend_strip: f64) -> (Scene, Fit) {
         });
         // A text that no longer sits right over (or under) its bar gets a
         // leader line back to its owner.
-        let strays = bar.is_some_and(|b| !place::attached(&r, b, &own));
-        if chosen.leader || strays {
-            let (origin, to) = place::leader(origin, reach, &r);
+        if needs_leader {
+            let (origin, to) = owner.leader_to(&r);
             placer.segments.push((origin, to));
             placer.leaders.push((origin, to));
             leaders.push(Item::Line(Line {
@@ -844,8 +936,99 @@ fn build(spec: &DiagramSpec, style: &Style, legend_strip: f64) -> (Scene, Fit) {
         }));
         Ok(())
     };
-    for (role, side) in [(Role::Value, Side::Above), (Role::Label, Side::Below)] {
-        for &i in &by_x {
+    // Annotation texts first, beside their marks: the numbers the figure
+    // was asked to show; values and labels find their spots around them.
+    for (a, alternatives) in marks {
+        let lines: Vec<RichLine> = a.lines().iter().map(|l| markup::parse(l)).collect();
+        if lines.iter().all(|l| rich::plain(l).trim().is_empty()) {
+            annotation_items.extend(alternatives[0].items.iter().cloned());
+            continue;
+        }
+        // Each drawing on its own: the preferred one's obstacles go, and an
+        // alternative must cross no placed text or bar.
+        let first = &alternatives[0];
+        placer.blocked.retain(|r| !first.hard.contains(r));
+        placer.segments.retain(|s| !first.soft.contains(s));
+        // Beside its mark first, in any of the drawings; only then a spot
+        // a little away with a short leader.
+        let mut shown = None;
+        'search: for ring in [0.0, ANNOTATION_RING] {
+            for (k, d) in alternatives.iter().enumerate() {
+                if k > 0 && !annotate::clear_of(d, &placer.blocked, &placer.leaders) {
+                    continue;
+                }
+                let (nb, ns) = (placer.blocked.len(), placer.segments.len());
+                placer.blocked.extend(d.hard.iter().copied());
+                placer.segments.extend(d.soft.iter().copied());
+                placer.guides.extend(d.soft.iter().copied());
+                let (mx, top, bottom) = d.mark;
+                let cands = place::beside(mx, top, bottom, &lines, style.annotation_text_pt);
+                let origin = (mx, (top + bottom) / 2.0);
+                let owner = place::Owner {
+                    origin,
+                    reach: 0.0,
+                    bar: None,
+                    own: &[],
+                    half: 0.0,
+                };
+                if placer.choose_clear(&cands, &owner, ring).is_some() {
+                    shown = Some((d, cands, origin, ring));
+                    break 'search;
+                }
+                placer.blocked.truncate(nb);
+                placer.segments.truncate(ns);
+            }
+        }
+        match shown {
+            // The spot just found is chosen again (same state, same choice).
+            Some((d, cands, origin, ring))
+                if settle(
+                    &mut placer,
+                    &cands,
+                    origin,
+                    None,
+                    0.0,
+                    ring,
+                    Role::AnnotationText,
+                    None,
+                )
+                .is_ok() =>
+            {
+                annotation_items.extend(d.items.iter().cloned());
+            }
+            _ => left_out.push(plain_lines(a.lines())),
+        }
+    }
+
+    // Values, then labels, left to right; texts that found no spot in an
+    // earlier pass go first (a label then takes the side its value would
+    // have taken, and the value the other).
+    let mut early: Vec<(Role, usize)> = Vec::new();
+    for &(r, i) in first.iter().filter(|(_, i)| by_x.contains(i)) {
+        // A label's value right after it, on whichever side is left.
+        for job in [(r, i), (Role::Value, i)] {
+            if !early.contains(&job) {
+                early.push(job);
+            }
+        }
+    }
+    let jobs: Vec<(Role, usize)> = early
+        .iter()
+        .copied()
+        .chain(
+            [Role::Value, Role::Label]
+                .into_iter()
+                .flat_map(|r| by_x.iter().map(move |&i| (r, i)))
+                .filter(|job| !early.contains(job)),
+        )
+        .collect();
+    {
+        for (role, i) in jobs {
+            let side = if role == Role::Value {
+                Side::Above
+            } else {
+                Side::Below
+            };
             let p = &spec.points[i];
             let (runs, size) = match role {
                 Role::Value => (vec![Run::plain(p.value_text.clone())], style.value_pt),
@@ -864,10 +1047,10 @@ fn build(spec: &DiagramSpec, style: &Style, legend_strip: f64) -> (Scene, Fit) {
                 x: x[i],
                 y: y[i],
                 half_thickness: half,
+                half_width: bar_w[i] / 2.0,
                 side,
                 text: &runs,
                 size_pt: size,
-                min_pt: smallest_pt(style).min(size),
                 breakable: role == Role::Label,
             };
             let cands = place::candidates(&req);
@@ -881,12 +1064,15 @@ fn build(spec: &DiagramSpec, style: &Style, legend_strip: f64) -> (Scene, Fit) {
                 &cands,
                 origin,
                 Some(bar),
+                half,
+                place::RING_RADIUS,
                 role,
                 Some(Tag::Point(p.id.clone())),
             );
             if let Err(text) = placed {
                 left_out.push(text);
                 points_left_out += 1;
+                missing.push((role, i));
             }
         }
     }
@@ -907,10 +1093,10 @@ fn build(spec: &DiagramSpec, style: &Style, legend_strip: f64) -> (Scene, Fit) {
                 x: vx,
                 y: vy,
                 half_thickness: half_t,
+                half_width: bar_w[*i] / 2.0,
                 side,
                 text: &runs,
                 size_pt: style.value_pt,
-                min_pt: smallest_pt(style).min(style.value_pt),
                 breakable: false,
             };
             let origin = match side {
@@ -924,6 +1110,8 @@ fn build(spec: &DiagramSpec, style: &Style, legend_strip: f64) -> (Scene, Fit) {
                 &place::candidates(&req),
                 origin,
                 Some(bar),
+                half_t,
+                place::RING_RADIUS,
                 Role::Value,
                 tag,
             );
@@ -933,54 +1121,6 @@ fn build(spec: &DiagramSpec, style: &Style, legend_strip: f64) -> (Scene, Fit) {
             }
         }
     }
-    for (a, alternatives) in marks {
-        let lines: Vec<RichLine> = a.lines().iter().map(|l| markup::parse(l)).collect();
-        if lines.iter().all(|l| rich::plain(l).trim().is_empty()) {
-            annotation_items.extend(alternatives[0].items.iter().cloned());
-            continue;
-        }
-        // Each drawing on its own: the preferred one's obstacles go, and an
-        // alternative must cross no placed text or bar.
-        let first = &alternatives[0];
-        placer.blocked.retain(|r| !first.hard.contains(r));
-        placer.segments.retain(|s| !first.soft.contains(s));
-        let mut shown = None;
-        for (k, d) in alternatives.iter().enumerate() {
-            if k > 0 && !annotate::clear_of(d, &placer.blocked) {
-                continue;
-            }
-            let (nb, ns) = (placer.blocked.len(), placer.segments.len());
-            placer.blocked.extend(d.hard.iter().copied());
-            placer.segments.extend(d.soft.iter().copied());
-            let (mx, top, bottom) = d.mark;
-            let cands = place::beside(mx, top, bottom, &lines, style.annotation_text_pt);
-            let origin = (mx, (top + bottom) / 2.0);
-            if placer.choose_clear(&cands, origin, 0.0).is_some() {
-                shown = Some((d, cands, origin));
-                break;
-            }
-            placer.blocked.truncate(nb);
-            placer.segments.truncate(ns);
-        }
-        match shown {
-            // The spot just found is chosen again (same state, same choice).
-            Some((d, cands, origin))
-                if settle(
-                    &mut placer,
-                    &cands,
-                    origin,
-                    None,
-                    Role::AnnotationText,
-                    None,
-                )
-                .is_ok() =>
-            {
-                annotation_items.extend(d.items.iter().cloned());
-            }
-            _ => left_out.push(plain_lines(a.lines())),
-        }
-    }
-
     overlay::colour_values(&mut placed_texts, spec, style);
     items.extend(annotation_items);
     items.extend(leaders);
@@ -1020,6 +1160,7 @@ fn build(spec: &DiagramSpec, style: &Style, legend_strip: f64) -> (Scene, Fit) {
         Fit {
             left_out,
             points_left_out,
+            missing,
             legend: legend_ok,
         },
     )

@@ -1,8 +1,11 @@
 //! Collision-checked placement of text. Every text gets a list of candidate
-//! positions in order of preference; the first one that fits (inside the
-//! page, clear of every placed text and bar) wins, with a penalty for each
-//! connector it would cover. If no nearby spot fits, a wider search moves the
-//! text away and the caller draws a leader line back to its bar.
+//! positions in order of preference (over or under its bar, slid along it,
+//! stacked with its other text, beside an end); the cheapest one that fits
+//! (inside the page, clear of every placed text and bar, crossed by no line)
+//! wins. If no nearby spot fits, a search within [`RING_RADIUS`] moves the
+//! text away and the caller draws a leader line back to its bar, which
+//! itself crosses no text, bar or line. A text with no such spot is left
+//! out (and the caller says so) rather than drawn through a line.
 
 use super::scene::{Anchor, Rect, RichLine, Run};
 use super::{rich, text};
@@ -10,18 +13,26 @@ use std::sync::OnceLock;
 
 /// Gap kept between any two texts, and between a text and a bar, in mm.
 pub const CLEARANCE: f64 = 0.3;
-/// Cost of covering one connector, in mm of displacement.
-const CROSSING_COST: f64 = 5.0;
 /// How far (mm) a value or label may sit from its bar's line and still read
 /// as attached to it without a leader line.
 pub const ATTACH_MM: f64 = 2.0;
+/// How far (mm) a text level with its bar may sit beside the bar's end and
+/// still read as attached to it.
+pub const BESIDE_MM: f64 = 1.0;
 
 /// True when a text box `r` reads as belonging to the bar `(x0, x1, y)`:
 /// it overlaps the bar horizontally and its near edge is within
 /// [`ATTACH_MM`] of the bar's line, not counting the bar's own other texts
 /// (`own`) stacked in between (a label over its value reads as one block).
+///
+/// A text level with the bar (its box spans the bar's line) right beside
+/// either end, within [`BESIDE_MM`], reads as attached too.
 pub fn attached(r: &Rect, bar: (f64, f64, f64), own: &[Rect]) -> bool {
     let (x0, x1, y) = bar;
+    let side_gap = (r.x0 - x1).max(x0 - r.x1);
+    if r.y0 < y && r.y1 > y && (-1e-9..=BESIDE_MM).contains(&side_gap) {
+        return true;
+    }
     let overlaps = |a: &Rect| a.x1 > x0 && a.x0 < x1;
     let above = r.y1 <= y;
     let mut gap = if above { y - r.y1 } else { r.y0 - y }.max(0.0);
@@ -64,6 +75,31 @@ impl Candidate {
     }
 }
 
+/// Whom a text belongs to: where a leader to it would start, and the bar
+/// it must read as attached to without one.
+#[derive(Debug, Clone)]
+pub struct Owner<'a> {
+    /// Where a leader starts (the bar's edge under or over its centre).
+    pub origin: (f64, f64),
+    /// How far along the bar (mm either side of `origin`) a leader may start.
+    pub reach: f64,
+    /// The bar `(left, right, y)`, if the text belongs to one.
+    pub bar: Option<(f64, f64, f64)>,
+    /// The owner's texts placed already (a label stacked over its value).
+    pub own: &'a [Rect],
+    /// Half the bar's drawn thickness, mm (a leader starts at its edge).
+    pub half: f64,
+}
+
+/// A chosen spot, and whether a leader must lead to it.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Chosen {
+    /// Where the text goes.
+    pub candidate: Candidate,
+    /// It does not read as attached to its owner: draw a leader.
+    pub leader: bool,
+}
+
 /// Obstacles on the page.
 #[derive(Debug, Clone)]
 pub struct Placer {
@@ -76,6 +112,10 @@ pub struct Placer {
     /// Leaders drawn so far: no later text may cover one (a leader through
     /// a text seems to point at it).
     pub leaders: Vec<((f64, f64), (f64, f64))>,
+    /// Faint reference lines among `segments` (the zero line, annotations'
+    /// dotted guides) that a leader may cross: they belong to no state, so
+    /// crossing one leads a reader nowhere wrong. Texts still avoid them.
+    pub guides: Vec<((f64, f64), (f64, f64))>,
 }
 
 impl Placer {
@@ -103,70 +143,65 @@ impl Placer {
             .count()
     }
 
-    /// The best fitting candidate: lowest preference cost + crossing
-    /// penalty; `candidates` must be sorted by cost.
-    ///
-    /// `origin` is where a leader line would start (the bar), anywhere
-    /// within `reach` of it horizontally (along the bar); a candidate whose
-    /// leader would cut through a placed text or bar is rejected.
-    pub fn choose_from(
-        &self,
-        candidates: &[Candidate],
-        origin: (f64, f64),
-        reach: f64,
-    ) -> Option<Candidate> {
-        self.choose(candidates, origin, reach, false)
-    }
-
-    /// [`Placer::choose_from`] for a text that must not cover any segment
-    /// (an annotation's number read across a connector is easily misread):
-    /// a crossing rules a spot out instead of adding a penalty, and the
-    /// search with a leader goes no farther than [`CLEAR_RING_RADIUS`].
+    /// The best fitting candidate (lowest preference cost; `candidates`
+    /// must be sorted by cost) that covers no segment and whose leader, if
+    /// it needs one, crosses no line but guides: a number or a name read
+    /// across a line is easily misread, and a leader across a line points
+    /// at the wrong owner. The search with a leader goes no farther than
+    /// `ring` mm from the owner (0: none).
     pub fn choose_clear(
         &self,
         candidates: &[Candidate],
-        origin: (f64, f64),
-        reach: f64,
-    ) -> Option<Candidate> {
-        self.choose(candidates, origin, reach, true)
-    }
-
-    fn choose(
-        &self,
-        candidates: &[Candidate],
-        origin: (f64, f64),
-        reach: f64,
-        clear: bool,
-    ) -> Option<Candidate> {
-        // Total cost of a text at box `r`, or `None` where it may not go.
-        let cost_at = |r: &Rect, needs_leader: bool, cost: f64| -> Option<f64> {
+        owner: &Owner<'_>,
+        ring: f64,
+    ) -> Option<Chosen> {
+        // Total cost of a text at box `r` and whether it needs a leader, or
+        // `None` where it may not go. A text that does not read as attached
+        // to its bar needs a leader, wherever it was proposed.
+        let cost_at = |r: &Rect, leader_asked: bool, cost: f64| -> Option<(f64, bool)> {
             if !self.fits(r) {
                 return None;
             }
+            if self.crossings(r) > 0 {
+                return None;
+            }
+            let needs_leader =
+                leader_asked || owner.bar.is_some_and(|b| !attached(r, b, owner.own));
             if needs_leader {
-                let (origin, to) = leader(origin, reach, r);
-                let cuts = self.leader_cuts(origin, to);
-                // A clear text's leader crosses no line either: a reader
-                // follows it to the wrong owner.
-                let crosses = clear
-                    && self
+                // Level with its bar but not right beside it, a text's
+                // leader would run along the bar or a connector.
+                if owner.bar.is_some_and(|(_, _, y)| r.y0 < y && y < r.y1) {
+                    return None;
+                }
+                let (origin, to) = owner.leader_to(r);
+                if self.leader_cuts(origin, to) {
+                    return None;
+                }
+                if self
                         .segments
                         .iter()
-                        .any(|&(a, b)| segments_cross(origin, to, a, b));
-                if cuts || crosses {
+                        .filter(|s| !self.guides.contains(s))
+                        .any(|&(a, b)| segments_cross(origin, to, a, b))
+                {
                     return None;
                 }
             }
-            let crossings = self.crossings(r);
-            if clear && crossings > 0 {
-                return None;
-            }
-            Some(cost + CROSSING_COST * crossings as f64)
+            // A near spot that needs a leader anyway is dearer than sliding
+            // along the bar to one that does not.
+            let stray = if needs_leader && !leader_asked {
+                STRAY_COST
+            } else {
+                0.0
+            };
+            Some((
+                cost + stray,
+                needs_leader,
+            ))
         };
         // Measuring text is the slow part: candidates differ mostly by
         // position, so each setting is measured once and shifted.
         let mut shapes: Vec<(&Candidate, Rect)> = Vec::new();
-        let mut best: Option<(f64, Candidate)> = None;
+        let mut best: Option<(f64, Chosen)> = None;
         for c in candidates {
             if best.as_ref().is_some_and(|(cost, _)| c.cost >= *cost) {
                 break; // sorted by cost: nothing later can beat it
@@ -182,10 +217,16 @@ impl Placer {
                     r
                 }
             };
-            if let Some(total) = cost_at(&r, c.leader, c.cost)
+            if let Some((total, leader)) = cost_at(&r, c.leader, c.cost)
                 && best.as_ref().is_none_or(|(b, _)| total < *b)
             {
-                best = Some((total, c.clone()));
+                best = Some((
+                    total,
+                    Chosen {
+                        candidate: c.clone(),
+                        leader,
+                    },
+                ));
             }
         }
         // The search ring around the origin (far away, with a leader), tried
@@ -208,11 +249,12 @@ impl Placer {
         let shape = rich::block_box(0.0, 0.0, &narrowest.lines, size, Anchor::Middle, 0.0);
         for &(dx, dy, d) in ring_offsets() {
             let cost = d + extra;
-            if best.as_ref().is_some_and(|(b, _)| cost >= *b) || (clear && d > CLEAR_RING_COST) {
+            // Sorted by cost, which grows with the distance.
+            if best.as_ref().is_some_and(|(b, _)| cost >= *b) || dx.hypot(dy) > ring + 1e-9 {
                 break;
             }
-            let (x, y) = (origin.0 + dx, origin.1 + dy + dy0);
-            if let Some(total) = cost_at(&shifted(&shape, x, y), true, cost)
+            let (x, y) = (owner.origin.0 + dx, owner.origin.1 + dy + dy0);
+            if let Some((total, _)) = cost_at(&shifted(&shape, x, y), true, cost)
                 && best.as_ref().is_none_or(|(b, _)| total < *b)
             {
                 let c = Candidate {
@@ -224,7 +266,13 @@ impl Placer {
                     leader: true,
                     cost,
                 };
-                best = Some((total, c));
+                best = Some((
+                    total,
+                    Chosen {
+                        candidate: c,
+                        leader: true,
+                    },
+                ));
             }
         }
         best.map(|(_, c)| c)
@@ -232,21 +280,33 @@ impl Placer {
 
     #[cfg(test)]
     fn choose_at(&self, candidates: &[Candidate]) -> Option<Candidate> {
-        self.choose_from(candidates, (40.0, 30.0), 0.0)
+        let owner = Owner {
+            origin: (40.0, 30.0),
+            reach: 0.0,
+            bar: None,
+            own: &[],
+            half: 0.0,
+        };
+        self.choose_clear(candidates, &owner, RING_RADIUS)
+            .map(|c| c.candidate)
     }
 
     /// True when a leader from `origin` (on its bar) to `to` would cut
     /// through a placed text or another bar.
     pub fn leader_cuts(&self, origin: (f64, f64), to: (f64, f64)) -> bool {
-        let at = Rect {
-            x0: origin.0,
-            y0: origin.1,
-            x1: origin.0,
-            y1: origin.1,
-        };
-        self.blocked
-            .iter()
-            .any(|b| !b.inflate(0.05).contains(&at) && segment_hits_rect(origin, to, b))
+        // Starting on its own bar's edge and leaving it is no cut: the
+        // check starts a hair along the way (every other box counts, even
+        // one that reaches the starting point).
+        let len = (to.0 - origin.0).hypot(to.1 - origin.1);
+        if len < 1e-9 {
+            return false;
+        }
+        let t = (0.02 / len).min(1.0);
+        let from = (
+            origin.0 + t * (to.0 - origin.0),
+            origin.1 + t * (to.1 - origin.1),
+        );
+        self.blocked.iter().any(|b| segment_hits_rect(from, to, b))
     }
 
     /// Marks `r` as taken.
@@ -265,17 +325,25 @@ fn shifted(r: &Rect, dx: f64, dy: f64) -> Rect {
     }
 }
 
-/// The leader from a bar at `origin` (± `reach` along it) to the box `r`:
-/// from the bar point below or above the box's nearest edge, to the box.
-pub fn leader(origin: (f64, f64), reach: f64, r: &Rect) -> ((f64, f64), (f64, f64)) {
-    let centre = (r.x0 + r.x1) / 2.0;
-    let from = (centre.clamp(origin.0 - reach, origin.0 + reach), origin.1);
-    (from, r.nearest(from.0, from.1))
+impl Owner<'_> {
+    /// The leader to the box `r`: from the bar's edge facing the box (top
+    /// for a box above the bar), under or over the box's centre as far as
+    /// `reach` allows, to the box's nearest point.
+    pub fn leader_to(&self, r: &Rect) -> ((f64, f64), (f64, f64)) {
+        let centre = (r.x0 + r.x1) / 2.0;
+        let x = centre.clamp(self.origin.0 - self.reach, self.origin.0 + self.reach);
+        let y = match self.bar {
+            Some((_, _, y)) if r.y1 <= y => y - self.half,
+            Some((_, _, y)) if r.y0 >= y => y + self.half,
+            _ => self.origin.1,
+        };
+        ((x, y), r.nearest(x, y))
+    }
 }
 
 /// True when segments p–q and a–b cross (proper intersection; touching
 /// ends do not count, so a leader may start where a connector ends).
-fn segments_cross(p: (f64, f64), q: (f64, f64), a: (f64, f64), b: (f64, f64)) -> bool {
+pub fn segments_cross(p: (f64, f64), q: (f64, f64), a: (f64, f64), b: (f64, f64)) -> bool {
     let side = |o: (f64, f64), u: (f64, f64), v: (f64, f64)| {
         (u.0 - o.0) * (v.1 - o.1) - (u.1 - o.1) * (v.0 - o.0)
     };
@@ -334,10 +402,10 @@ pub struct Request<'a> {
     pub side: Side,
     /// The text as styled runs.
     pub text: &'a [Run],
+    /// Half the bar's length, mm (a text may also sit beside an end).
+    pub half_width: f64,
     /// Preferred size, pt.
     pub size_pt: f64,
-    /// Smallest allowed size, pt.
-    pub min_pt: f64,
     /// Whether line breaks may be tried.
     pub breakable: bool,
 }
@@ -354,38 +422,28 @@ const PER_PT_SMALLER: f64 = 6.0;
 const FAR_AWAY: f64 = 8.0;
 /// How far (mm) a text may be moved from its bar, with a leader line;
 /// farther, it no longer reads as belonging to its bar.
-const RING_RADIUS: f64 = 12.0;
-/// How far (mm) a text that must stay clear of lines may move from its mark,
-/// with a leader: an annotation's number much farther than this reads as
-/// belonging to something else, so it is left out instead.
-const CLEAR_RING_RADIUS: f64 = RING_RADIUS;
-/// The ring cost of a spot at [`CLEAR_RING_RADIUS`] (ring costs grow with
-/// the distance and are sorted, so the search stops there).
-const CLEAR_RING_COST: f64 = FAR_AWAY + CLEAR_RING_RADIUS;
-/// The last resort before a text is left out: anywhere this near, at a
-/// cost that puts it after every nearer spot.
-const LAST_RESORT_RADIUS: f64 = 32.0;
+pub const RING_RADIUS: f64 = 12.0;
 
 /// Candidates for `req`, best first. Each gets a preference cost: distance
 /// moved from the default spot, plus fixed costs for switching side,
 /// stacking past the other text, breaking lines and shrinking. The search
 /// ring around the bar (far away, with a leader line) is added lazily by
-/// [`Placer::choose_from`].
+/// [`Placer::choose_clear`].
 pub fn candidates(req: &Request<'_>) -> Vec<Candidate> {
-    let mut sizes = vec![req.size_pt];
-    // One step only: a text much smaller than its neighbours looks out of
-    // place; the whole figure shrinks instead (see `layout`).
-    let smaller = (req.size_pt * 0.9 * 10.0).round() / 10.0;
-    if smaller >= req.min_pt - 1e-9 && smaller < req.size_pt {
-        sizes.push(smaller);
-    }
+    // One size: a text smaller than its neighbours looks out of place; a
+    // crowded figure shrinks as a whole instead (see `layout`).
+    let sizes = [req.size_pt];
     let other = match req.side {
         Side::Above => Side::Below,
         Side::Below => Side::Above,
     };
     let mut out: Vec<(f64, Candidate)> = Vec::new();
     let gap = 0.35;
-    let nudges = [0.0, -0.15, 0.15, -0.3, 0.3, -0.45, 0.45, -0.6, 0.6];
+    // Fine steps: the room beside a neighbour's bar or the page's edge is
+    // often only a little wider than the text.
+    let nudges: Vec<f64> = (0..=48)
+        .map(|k| if k % 2 == 0 { k as f64 } else { -(k as f64 + 1.0) } * 0.0125)
+        .collect();
     for (side, stack) in [(req.side, 0usize), (other, 0), (other, 1), (req.side, 1)] {
         for &size in &sizes {
             let em = size * text::PT_MM;
@@ -428,6 +486,31 @@ pub fn candidates(req: &Request<'_>) -> Vec<Candidate> {
             }
         }
     }
+    // Level with the bar, beside either end (where no connector leaves it):
+    // on one line, centred on the bar's line.
+    for &size in &sizes {
+        let em = size * text::PT_MM;
+        let lines = vec![req.text.to_vec()];
+        let y = req.y + (text::ASCENT - text::DESCENT) * em / 2.0;
+        let gap = CLEARANCE + 0.35;
+        for (anchor, x) in [
+            (Anchor::Start, req.x + req.half_width + gap),
+            (Anchor::End, req.x - req.half_width - gap),
+        ] {
+            out.push((
+                BESIDE_COST,
+                Candidate {
+                    x,
+                    y,
+                    lines: lines.clone(),
+                    size_pt: size,
+                    anchor,
+                    leader: false,
+                    cost: 0.0,
+                },
+            ));
+        }
+    }
     // Stable sort: equal costs keep generation order, so output is deterministic.
     out.sort_by(|a, b| a.0.total_cmp(&b.0));
     out.into_iter()
@@ -435,26 +518,28 @@ pub fn candidates(req: &Request<'_>) -> Vec<Candidate> {
         .collect()
 }
 
+/// Extra cost of a near spot that does not read as attached to its bar
+/// (it needs a leader).
+const STRAY_COST: f64 = 4.0;
+
+/// Cost of a text beside its bar's end instead of over or under it.
+const BESIDE_COST: f64 = 4.0;
+
 /// Offsets of the search ring for a text that needs a leader line, with
-/// their cost, cheapest first: a fine grid within [`RING_RADIUS`], then a
-/// coarser one out to [`LAST_RESORT_RADIUS`] after every nearer spot.
+/// their cost, cheapest (nearest) first: a 0.8 mm grid within
+/// [`RING_RADIUS`].
 fn ring_offsets() -> &'static [(f64, f64, f64)] {
     static OFFSETS: OnceLock<Vec<(f64, f64, f64)>> = OnceLock::new();
     OFFSETS.get_or_init(|| {
         let mut out = Vec::new();
-        for (lo, hi, step, tier) in [
-            (2.0, RING_RADIUS, 0.8, 0.0),
-            (RING_RADIUS, LAST_RESORT_RADIUS, 1.6, 2.0 * RING_RADIUS),
-        ] {
-            let reach = (hi / step).ceil() as i32;
-            for iy in -reach..=reach {
-                for ix in -reach..=reach {
-                    let (dx, dy) = (ix as f64 * step, iy as f64 * step);
-                    let d = (dx * dx + dy * dy).sqrt();
-                    let inside = if tier > 0.0 { d > lo } else { d >= lo };
-                    if inside && d <= hi {
-                        out.push((dx, dy, FAR_AWAY + tier + d));
-                    }
+        let step = 0.8;
+        let reach = (RING_RADIUS / step).ceil() as i32;
+        for iy in -reach..=reach {
+            for ix in -reach..=reach {
+                let (dx, dy) = (ix as f64 * step, iy as f64 * step);
+                let d = dx.hypot(dy);
+                if (2.0..=RING_RADIUS).contains(&d) {
+                    out.push((dx, dy, FAR_AWAY + d));
                 }
             }
         }
@@ -468,7 +553,7 @@ fn ring_offsets() -> &'static [(f64, f64, f64)] {
 /// from `y_top` to `y_bottom` at `x`: right of it first, then left, centred
 /// on the mark's middle and sliding along it; then the same with each
 /// "name = value" line broken after the "=" (narrower, to fit between
-/// connectors). [`Placer::choose_from`] adds the far-away ring.
+/// connectors). [`Placer::choose_clear`] adds the far-away ring.
 pub fn beside(x: f64, y_top: f64, y_bottom: f64, lines: &[RichLine], size: f64) -> Vec<Candidate> {
     let em = size * text::PT_MM;
     // Whole, then the widest line broken, then every line.
@@ -603,6 +688,7 @@ mod tests {
             blocked: Vec::new(),
             segments: Vec::new(),
             leaders: Vec::new(),
+            guides: Vec::new(),
         }
     }
 
@@ -612,10 +698,10 @@ mod tests {
             x: 40.0,
             y: 30.0,
             half_thickness: 0.35,
+            half_width: 3.0,
             side,
             text: runs,
             size_pt: 7.0,
-            min_pt: 5.0,
             breakable: true,
         }
     }
