@@ -223,7 +223,7 @@ impl History {
     /// (Shampine & Reichelt 1997, §3.2; scipy's `change_D`): D ← (RU)ᵀ D
     /// over rows 0..=order.
     #[allow(clippy::needless_range_loop)] // matrix indices, as in the paper
-    fn change_step(&mut self, factor: f64, scratch: &mut [f64]) {
+    fn change_step(&mut self, factor: f64) {
         let order = self.order;
         let r = difference_change(order, factor);
         let u = difference_change(order, 1.0);
@@ -233,20 +233,38 @@ impl History {
                 ru[i][j] = (0..=order).map(|k| r[i][k] * u[k][j]).sum();
             }
         }
-        let n = self.n;
-        let scratch = &mut scratch[..(order + 1) * n];
-        scratch.fill(0.0);
-        for (k, out) in scratch.chunks_exact_mut(n).enumerate() {
+        let full = self.n / BLOCK * BLOCK;
+        for start in (0..full).step_by(BLOCK) {
+            self.change_block::<BLOCK>(start, &ru);
+        }
+        for start in full..self.n {
+            self.change_block::<1>(start, &ru);
+        }
+    }
+
+    /// D ← (RU)ᵀ D on `L` states from `start`, the old rows held in
+    /// registers (one read and one write per entry).
+    #[allow(clippy::needless_range_loop)] // matrix indices, as in the paper
+    fn change_block<const L: usize>(
+        &mut self,
+        start: usize,
+        ru: &[[f64; MAX_ORDER + 1]; MAX_ORDER + 1],
+    ) {
+        let (n, order) = (self.n, self.order);
+        let mut old = [[0.0; L]; MAX_ORDER + 1];
+        for i in 0..=order {
+            old[i].copy_from_slice(&self.d[i * n + start..i * n + start + L]);
+        }
+        for k in 0..=order {
+            let mut out = [0.0; L];
             for i in 0..=order {
                 let w = ru[i][k];
-                if w != 0.0 {
-                    for (o, d) in out.iter_mut().zip(&self.d[i * n..(i + 1) * n]) {
-                        *o += w * d;
-                    }
+                for l in 0..L {
+                    out[l] += w * old[i][l];
                 }
             }
+            self.d[k * n + start..k * n + start + L].copy_from_slice(&out);
         }
-        self.d[..(order + 1) * n].copy_from_slice(scratch);
     }
 }
 
@@ -394,13 +412,12 @@ pub fn integrate_with(
     let mut w = vec![0.0; n];
     let mut w_newton = vec![0.0; n];
     weights(x0, atol, rtol, &mut w_newton);
-    let mut scratch = vec![0.0; (MAX_ORDER + 1) * n];
 
     for _ in 0..MAX_STEPS {
         let t = hist.t;
         let min_step = 10.0 * (next_up(t) - t);
         if h < min_step {
-            hist.change_step(min_step / h, &mut scratch);
+            hist.change_step(min_step / h);
             h = min_step;
             n_equal_steps = 0;
         }
@@ -414,7 +431,7 @@ pub fn integrate_with(
             t_new = t + h;
             if t_new >= t_end {
                 t_new = t_end;
-                hist.change_step((t_new - t) / h, &mut scratch);
+                hist.change_step((t_new - t) / h);
                 n_equal_steps = 0;
             }
             h = t_new - t;
@@ -518,7 +535,7 @@ pub fn integrate_with(
             if !converged {
                 // Newton failed with a current Jacobian (or the result
                 // overflowed): halve the step.
-                hist.change_step(0.5, &mut scratch);
+                hist.change_step(0.5);
                 h *= 0.5;
                 n_equal_steps = 0;
                 eta = f64::INFINITY;
@@ -528,7 +545,7 @@ pub fn integrate_with(
                 0.9 * (2 * NEWTON_MAXITER + 1) as f64 / (2 * NEWTON_MAXITER + iterations) as f64;
             if error_norm > 1.0 {
                 let factor = MIN_FACTOR.max(safety * error_norm.powf(-1.0 / (order + 1) as f64));
-                hist.change_step(factor, &mut scratch);
+                hist.change_step(factor);
                 h *= factor;
                 n_equal_steps = 0;
                 counts.rejected += 1;
@@ -601,7 +618,7 @@ pub fn integrate_with(
             continue;
         }
         hist.order = order + best - 1;
-        hist.change_step(factor, &mut scratch);
+        hist.change_step(factor);
         h *= factor;
         n_equal_steps = 0;
     }
