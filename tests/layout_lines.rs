@@ -18,6 +18,9 @@ use eyrie::layout::{Connector, Crowding, Item, Rect, Role, Scene, layout_report}
 use eyrie::model::Model;
 use std::path::Path;
 
+/// A stroke from one point to another, mm, and what it is.
+type Stroke = (Role, ((f64, f64), (f64, f64)));
+
 /// Every kind of stroke drawn on the page but the bars (kept clear of texts
 /// as boxes, see `layout_profiles`).
 const LINES: [Role; 8] = [
@@ -163,7 +166,7 @@ fn cross_is_the_closed_form() {
 fn no_line_crosses_a_label_a_value_or_an_annotation_text() {
     let mut problems = Vec::new();
     for (name, scene, _) in scenes() {
-        let strokes: Vec<(Role, ((f64, f64), (f64, f64)))> = LINES
+        let strokes: Vec<Stroke> = LINES
             .iter()
             .flat_map(|&r| scene.strokes(r).into_iter().map(move |s| (r, s)))
             .collect();
@@ -209,7 +212,7 @@ fn leaders_cross_no_bar_no_other_text_and_no_line() {
         // Connectors, leaders and annotation arrows and brackets; an
         // annotation's dotted guide (a faint reference line of no state) may
         // be crossed, as may the zero line.
-        let mut others: Vec<(Role, ((f64, f64), (f64, f64)))> = Vec::new();
+        let mut others: Vec<Stroke> = Vec::new();
         for role in [Role::Connector, Role::Leader] {
             others.extend(scene.strokes(role).into_iter().map(|s| (role, s)));
         }

@@ -142,7 +142,7 @@ pub fn draw(a: &Annotation, g: &Geometry<'_>, style: &Style) -> Vec<Drawn> {
 /// True when drawing `d` crosses none of the `blocked` boxes (placed texts,
 /// bars): its marks may touch bars only at their ends, its guides only where
 /// they start.
-pub fn clear_of(d: &Drawn, blocked: &[Rect], leaders: &[((f64, f64), (f64, f64))]) -> bool {
+pub fn clear_of(d: &Drawn, blocked: &[Rect], leaders: &[super::place::Segment]) -> bool {
     let leader_clear = leaders.iter().all(|&(p, q)| {
         d.hard
             .iter()

@@ -529,7 +529,8 @@ fn build(
             .then(a.cmp(&b))
     });
     // (members with their slot, number of slots, mean column)
-    let mut clusters: Vec<(Vec<(usize, usize)>, usize, f64)> = Vec::new();
+    type Cluster = (Vec<(usize, usize)>, usize, f64);
+    let mut clusters: Vec<Cluster> = Vec::new();
     let mut start = 0;
     while start < order.len() {
         let mut end = start + 1;

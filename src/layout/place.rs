@@ -11,6 +11,9 @@ use super::scene::{Anchor, Rect, RichLine, Run};
 use super::{rich, text};
 use std::sync::OnceLock;
 
+/// A straight stroke from one point to another, mm.
+pub type Segment = ((f64, f64), (f64, f64));
+
 /// Gap kept between any two texts, and between a text and a bar, in mm.
 pub const CLEARANCE: f64 = 0.3;
 /// How far (mm) a value or label may sit from its bar's line and still read
@@ -178,10 +181,10 @@ impl Placer {
                     return None;
                 }
                 if self
-                        .segments
-                        .iter()
-                        .filter(|s| !self.guides.contains(s))
-                        .any(|&(a, b)| segments_cross(origin, to, a, b))
+                    .segments
+                    .iter()
+                    .filter(|s| !self.guides.contains(s))
+                    .any(|&(a, b)| segments_cross(origin, to, a, b))
                 {
                     return None;
                 }
@@ -193,10 +196,7 @@ impl Placer {
             } else {
                 0.0
             };
-            Some((
-                cost + stray,
-                needs_leader,
-            ))
+            Some((cost + stray, needs_leader))
         };
         // Measuring text is the slow part: candidates differ mostly by
         // position, so each setting is measured once and shifted.
