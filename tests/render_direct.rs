@@ -6,11 +6,10 @@
 //! variants, axis break, double column), and a chart, must come out the same
 //! up to anti-aliasing. The PDF's text layer must hold every text of the SVG.
 
-use crate::common::repo;
-use resvg::{tiny_skia, usvg};
+use crate::common::{self, repo};
+use resvg::tiny_skia;
 use std::path::Path;
 use std::process::Command;
-use std::sync::Arc;
 
 /// Resolution of the comparison: fine enough that a glyph misplaced by a
 /// tenth of a millimetre shows (0.6 px), coarse enough to keep the test fast.
@@ -42,17 +41,7 @@ fn decode(bytes: &[u8]) -> (u32, u32, Vec<u8>) {
 
 /// resvg's drawing of `svg` at `w` × `h` pixels, as RGB on white.
 fn resvg_rgb(svg: &str, w: u32, h: u32) -> Vec<u8> {
-    let mut db = usvg::fontdb::Database::new();
-    for face in [eyrie::font::REGULAR, eyrie::font::ITALIC] {
-        db.load_font_source(usvg::fontdb::Source::Binary(Arc::new(face)));
-    }
-    db.set_sans_serif_family(eyrie::font::FAMILY);
-    let options = usvg::Options {
-        font_family: eyrie::font::FAMILY.to_string(),
-        fontdb: Arc::new(db),
-        ..usvg::Options::default()
-    };
-    let tree = usvg::Tree::from_str(svg, &options).expect("eyrie's SVG parses");
+    let tree = common::usvg_tree(svg);
     let size = tree.size();
     let mut pixmap = tiny_skia::Pixmap::new(w, h).expect("a drawable size");
     pixmap.fill(tiny_skia::Color::WHITE);

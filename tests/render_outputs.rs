@@ -4,6 +4,7 @@
 //! leaves nothing behind, and the text the layout measured is the text that
 //! gets drawn.
 
+use crate::common;
 use eyrie::layout::Anchor;
 use std::io::Read;
 use std::path::{Path, PathBuf};
@@ -181,22 +182,6 @@ fn format_option_names_the_default_output() {
     assert!(pdf.starts_with(b"%PDF-"));
 }
 
-/// usvg, the parser behind PNG and PDF, reading the SVG with only the bundled
-/// font, as eyrie's renderer does.
-fn usvg_tree(svg: &str) -> resvg::usvg::Tree {
-    use resvg::usvg;
-    let mut db = usvg::fontdb::Database::new();
-    db.load_font_data(eyrie::font::REGULAR.to_vec());
-    db.load_font_data(eyrie::font::ITALIC.to_vec());
-    db.set_sans_serif_family(eyrie::font::FAMILY);
-    let options = usvg::Options {
-        font_family: eyrie::font::FAMILY.into(),
-        fontdb: std::sync::Arc::new(db),
-        ..usvg::Options::default()
-    };
-    usvg::Tree::from_str(svg, &options).unwrap()
-}
-
 fn texts_of(group: &resvg::usvg::Group, out: &mut Vec<resvg::usvg::Text>) {
     for node in group.children() {
         match node {
@@ -215,7 +200,7 @@ fn drawn_text_stays_inside_the_boxes_the_layout_measured() {
         let model = eyrie::profile::parse(&text).unwrap().model;
         let spec = eyrie::figure::diagram_spec(&model, &eyrie::figure::FigureOptions::default());
         let scene = eyrie::layout::layout(&spec, &eyrie::layout::Style::default());
-        let tree = usvg_tree(&eyrie::render::to_svg(&scene));
+        let tree = common::usvg_tree(&eyrie::render::to_svg(&scene));
         let mut drawn = Vec::new();
         texts_of(tree.root(), &mut drawn);
         let px_per_mm = tree.size().width() / scene.width_mm as f32;

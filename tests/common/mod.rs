@@ -131,3 +131,22 @@ pub fn floats(v: &toml::Value) -> Vec<f64> {
         .map(|x| x.as_float().unwrap())
         .collect()
 }
+
+/// An SVG written by eyrie read by usvg (an independent SVG reader) with only
+/// the bundled faces loaded, so tests can check eyrie's SVG, PNG and PDF
+/// against what another renderer makes of the same figure.
+pub fn usvg_tree(svg: &str) -> resvg::usvg::Tree {
+    use resvg::usvg;
+    use std::sync::Arc;
+    let mut db = usvg::fontdb::Database::new();
+    for face in [eyrie::font::REGULAR, eyrie::font::ITALIC] {
+        db.load_font_source(usvg::fontdb::Source::Binary(Arc::new(face)));
+    }
+    db.set_sans_serif_family(eyrie::font::FAMILY);
+    let options = usvg::Options {
+        font_family: eyrie::font::FAMILY.to_string(),
+        fontdb: Arc::new(db),
+        ..usvg::Options::default()
+    };
+    usvg::Tree::from_str(svg, &options).expect("eyrie's SVG parses")
+}
