@@ -31,6 +31,7 @@ pub use style::{OKABE_ITO, PRESETS, Style};
 
 use crate::model::Kind;
 use place::{Placer, Request, Side};
+use std::sync::Arc;
 
 /// One stationary point as it is to be shown.
 #[derive(Debug, Clone, PartialEq)]
@@ -354,7 +355,7 @@ const ANNOTATION_RING: f64 = 6.0;
 
 /// How many times a pass is redone with the texts that found no spot
 /// placed first.
-const REORDER_TRIES: usize = 8;
+const REORDER_TRIES: usize = 3;
 
 /// Extra width (in columns) a column gets for each side-by-side slot past
 /// the first.
@@ -927,7 +928,7 @@ fn build(
         placed_texts.push(Item::Text(Text {
             x: chosen.x,
             y: chosen.y,
-            lines: chosen.lines,
+            lines: Arc::unwrap_or_clone(chosen.lines),
             size_pt: chosen.size_pt,
             anchor: chosen.anchor,
             colour: style.ink,

@@ -9,7 +9,7 @@
 
 use super::scene::{Anchor, Rect, RichLine, Run};
 use super::{rich, text};
-use std::sync::OnceLock;
+use std::sync::{Arc, OnceLock};
 
 /// A straight stroke from one point to another, mm.
 pub type Segment = ((f64, f64), (f64, f64));
@@ -59,8 +59,9 @@ pub struct Candidate {
     pub x: f64,
     /// First baseline, mm.
     pub y: f64,
-    /// The lines as they would be set.
-    pub lines: Vec<RichLine>,
+    /// The lines as they would be set (shared by the candidates that
+    /// differ only by position: hundreds per text).
+    pub lines: Arc<Vec<RichLine>>,
     /// Font size in pt.
     pub size_pt: f64,
     /// Horizontal alignment.
@@ -135,6 +136,14 @@ impl Placer {
                 .all(|(a, b)| !segment_hits_rect(*a, *b, r))
     }
 
+    /// True when a soft segment crosses `r` (see [`Placer::crossings`]).
+    pub fn crossed(&self, r: &Rect) -> bool {
+        let ink = r.inflate(-0.25);
+        self.segments
+            .iter()
+            .any(|(a, b)| segment_hits_rect(*a, *b, &ink))
+    }
+
     /// How many soft segments cross `r`. The box's edges are glyph side
     /// bearings and line spacing: a connector that only clips them does not
     /// touch the ink.
@@ -165,7 +174,7 @@ impl Placer {
             if !self.fits(r) {
                 return None;
             }
-            if self.crossings(r) > 0 {
+            if self.crossed(r) {
                 return None;
             }
             let needs_leader =
@@ -447,7 +456,7 @@ pub fn candidates(req: &Request<'_>) -> Vec<Candidate> {
     for (side, stack) in [(req.side, 0usize), (other, 0), (other, 1), (req.side, 1)] {
         for &size in &sizes {
             let em = size * text::PT_MM;
-            for lines in &breaks_of(req, size) {
+            for lines in breaks_of(req, size).into_iter().map(Arc::new) {
                 let w = lines
                     .iter()
                     .map(|l| rich::width_mm(l, size))
@@ -490,7 +499,7 @@ pub fn candidates(req: &Request<'_>) -> Vec<Candidate> {
     // on one line, centred on the bar's line.
     for &size in &sizes {
         let em = size * text::PT_MM;
-        let lines = vec![req.text.to_vec()];
+        let lines = Arc::new(vec![req.text.to_vec()]);
         let y = req.y + (text::ASCENT - text::DESCENT) * em / 2.0;
         let gap = CLEARANCE + 0.35;
         for (anchor, x) in [
@@ -579,7 +588,7 @@ pub fn beside(x: f64, y_top: f64, y_bottom: f64, lines: &[RichLine], size: f64) 
     let gap = 0.45 + CLEARANCE + 0.1;
     let len = (y_bottom - y_top).abs();
     let mut out: Vec<(f64, Candidate)> = Vec::new();
-    for (extra, set) in settings.iter().enumerate() {
+    for (extra, set) in settings.into_iter().map(Arc::new).enumerate() {
         let n = set.len().max(1) as f64;
         // Baseline of the first line that centres the block on height `yc`.
         let block_h = (n - 1.0) * text::LINE_HEIGHT * em;
