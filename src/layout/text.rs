@@ -96,14 +96,21 @@ pub fn line_breaks(label: &str, size_pt: f64) -> Vec<Vec<String>> {
     // Pieces end at a break opportunity; a space is dropped at the break.
     let mut pieces: Vec<(String, bool)> = Vec::new(); // (text, ends with a dropped space)
     let mut current = String::new();
+    // Inside brackets a hyphen ties a formula together ("(η²-H₂)"): no break.
+    let mut depth = 0usize;
     for c in label.chars() {
+        match c {
+            '(' | '[' | '{' => depth += 1,
+            ')' | ']' | '}' => depth = depth.saturating_sub(1),
+            _ => {}
+        }
         if c == ' ' {
             pieces.push((std::mem::take(&mut current), true));
         } else {
             current.push(c);
             // Break after a hyphen only after a real word: "TS-" alone on a
             // line reads as a stray prefix.
-            if c == '-' && current.chars().count() > 4 {
+            if c == '-' && depth == 0 && current.chars().count() > 4 {
                 pieces.push((std::mem::take(&mut current), false));
             }
         }
@@ -204,6 +211,11 @@ mod tests {
         let opts = line_breaks("ortho-quinone-methide", 7.0);
         assert_eq!(opts[1], vec!["ortho-quinone-", "methide"]);
         assert_eq!(line_breaks("TS-recombination", 7.0).len(), 1);
+        // A hyphen inside brackets belongs to a formula (common practice in
+        // typesetting: a formula is never split at its internal hyphen).
+        assert_eq!(line_breaks("[Ir](η²-H₂)H", 7.0).len(), 1);
+        let opts = line_breaks("trans-[Ru(cis-dppe)]", 7.0);
+        assert_eq!(opts[1], vec!["trans-", "[Ru(cis-dppe)]"]);
         assert_eq!(line_breaks("pair", 7.0).len(), 1);
         assert_eq!(line_breaks("", 7.0), vec![vec![String::new()]]);
     }
