@@ -11,12 +11,12 @@
 //! leaves it out with a warning (see `layout_profiles`); what is drawn is
 //! never crossed.
 
+use crate::common;
 use crate::layout_profiles::{bar_box, every_scene, profiles};
 use eyrie::figure::{AnnotationKind, FigureOptions, diagram_spec};
 use eyrie::layout::segment_hits_rect;
 use eyrie::layout::{Connector, Crowding, Item, Rect, Role, Scene, layout_report};
 use eyrie::model::Model;
-use std::path::Path;
 
 /// A stroke from one point to another, mm, and what it is.
 type Stroke = (Role, ((f64, f64), (f64, f64)));
@@ -38,21 +38,7 @@ const LINES: [Role; 8] = [
 /// `gallery/regenerate.sh` turned into figure options (and the page size,
 /// which `--width`/`--height` override).
 fn gallery_options(name: &str) -> (FigureOptions, Option<(f64, f64)>, Option<String>) {
-    let root = Path::new(env!("CARGO_MANIFEST_DIR"));
-    let script = std::fs::read_to_string(root.join("gallery/regenerate.sh")).unwrap();
-    let mut args: Option<Vec<String>> = None;
-    for line in script.lines() {
-        let line = line.trim();
-        let Some((patterns, rest)) = line.split_once(") extra=(") else {
-            continue;
-        };
-        let hit = patterns.split('|').any(|p| p == name || p == "*");
-        if hit && args.is_none() {
-            let inner = rest.split_once(')').unwrap().0;
-            args = Some(inner.split_whitespace().map(String::from).collect());
-        }
-    }
-    let args = args.unwrap_or_else(|| panic!("{name}: no case in gallery/regenerate.sh"));
+    let args = common::gallery_args(name);
     let mut o = FigureOptions::default();
     let mut size = None::<(f64, f64)>;
     let mut unit = None;

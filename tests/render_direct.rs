@@ -9,23 +9,14 @@
 use crate::common::{self, repo};
 use resvg::tiny_skia;
 use std::path::Path;
-use std::process::Command;
 
 /// Resolution of the comparison: fine enough that a glyph misplaced by a
 /// tenth of a millimetre shows (0.6 px), coarse enough to keep the test fast.
 const DPI: &str = "150";
 
+/// Runs eyrie in `dir` and insists it succeeded.
 fn eyrie(args: &[&str], dir: &Path) {
-    let out = Command::new(env!("CARGO_BIN_EXE_eyrie"))
-        .args(args)
-        .current_dir(dir)
-        .output()
-        .expect("the binary runs");
-    assert!(
-        out.status.success(),
-        "{args:?}: {}",
-        String::from_utf8_lossy(&out.stderr)
-    );
+    common::assert_exit(&common::eyrie(args, dir), 0);
 }
 
 /// Decoded RGB pixels of a PNG file.
@@ -128,41 +119,6 @@ fn check(name: &str, args: &[&str]) -> Difference {
     d
 }
 
-/// Every example profile with the options gallery/regenerate.sh draws it with.
-const CASES: [(&str, &[&str]); 10] = [
-    ("demo", &[]),
-    (
-        "catalytic-cycle",
-        &["--annotate", "span", "--connectors", "smooth"],
-    ),
-    (
-        "hydrogenation-cycle",
-        &["--annotate", "span", "--connectors", "smooth"],
-    ),
-    (
-        "conformers",
-        &["--annotate", "selectivity", "--connectors", "smooth"],
-    ),
-    (
-        "curtin-hammett",
-        &["--annotate", "selectivity", "--connectors", "smooth"],
-    ),
-    (
-        "entropy-switch",
-        &["--annotate", "selectivity", "--connectors", "smooth"],
-    ),
-    (
-        "three-branch",
-        &["--annotate", "selectivity", "--connectors", "smooth"],
-    ),
-    (
-        "hartree-absolute",
-        &["--annotate", "barriers", "--unit", "kcal/mol"],
-    ),
-    ("hydride-transfer", &["--variants", "all"]),
-    ("dense-network", &["--size", "double", "--axis-break"]),
-];
-
 #[test]
 fn direct_png_matches_resvg_of_the_svg() {
     let mut failures = Vec::new();
@@ -184,11 +140,11 @@ fn direct_png_matches_resvg_of_the_svg() {
             failures.push(format!("{name}: {d:?}"));
         }
     };
-    for (name, extra) in CASES {
+    for (name, extra) in common::gallery_cases() {
         let profile = repo(&format!("profiles/{name}.toml"));
         let mut args = vec!["render".to_string(), profile, "-o".into(), "{out}".into()];
-        args.extend(extra.iter().map(|s| s.to_string()));
-        run(name, args);
+        args.extend(extra);
+        run(&name, args);
     }
     // A chart (its own axes, ticks and legend) goes through the same drawing.
     let profile = repo("profiles/entropy-switch.toml");
@@ -212,12 +168,12 @@ fn pdf_text_is_the_svg_text() {
     // the PDF's text layer, read by lopdf (whitespace dropped: extraction
     // puts breaks between glyphs).
     let squeeze = |s: &str| -> String { s.chars().filter(|c| !c.is_whitespace()).collect() };
-    for (name, extra) in CASES {
+    for (name, extra) in common::gallery_cases() {
         let dir = tempfile::tempdir().expect("temp dir");
         let profile = repo(&format!("profiles/{name}.toml"));
         for out in ["f.svg", "f.pdf"] {
             let mut args = vec!["render", profile.as_str(), "-o", out];
-            args.extend_from_slice(extra);
+            args.extend(extra.iter().map(String::as_str));
             eyrie(&args, dir.path());
         }
         let svg = std::fs::read_to_string(dir.path().join("f.svg")).expect("SVG written");

@@ -150,3 +150,41 @@ pub fn usvg_tree(svg: &str) -> resvg::usvg::Tree {
     };
     usvg::Tree::from_str(svg, &options).expect("eyrie's SVG parses")
 }
+
+/// The extra `render` arguments `gallery/regenerate.sh` gives profile `name`
+/// (the `extra=(...)` of its case), read from the script itself so tests draw
+/// exactly what the gallery shows.
+pub fn gallery_args(name: &str) -> Vec<String> {
+    let script = std::fs::read_to_string(repo("gallery/regenerate.sh")).unwrap();
+    for line in script.lines() {
+        let Some((patterns, rest)) = line.trim().split_once(") extra=(") else {
+            continue;
+        };
+        if patterns.split('|').any(|p| p == name || p == "*") {
+            let inner = rest.split_once(')').unwrap().0;
+            return inner.split_whitespace().map(String::from).collect();
+        }
+    }
+    panic!("{name}: no case in gallery/regenerate.sh")
+}
+
+/// Every profile in `profiles/`, by name in file-name order, with the
+/// arguments the gallery draws it with.
+pub fn gallery_cases() -> Vec<(String, Vec<String>)> {
+    let mut names: Vec<String> = std::fs::read_dir(repo("profiles"))
+        .unwrap()
+        .filter_map(|e| {
+            let path = e.unwrap().path();
+            (path.extension()? == "toml")
+                .then(|| path.file_stem().unwrap().to_string_lossy().into_owned())
+        })
+        .collect();
+    names.sort();
+    names
+        .into_iter()
+        .map(|n| {
+            let args = gallery_args(&n);
+            (n, args)
+        })
+        .collect()
+}
