@@ -39,6 +39,20 @@ pub enum RenderError {
     Pdf(String),
 }
 
+/// A dash list as SVG's `stroke-dasharray` reads it, so PNG and PDF dash
+/// exactly as the SVG does: `None` (solid) for a negative or non-finite length
+/// or an all-zero list, and an odd-length list repeated to make it even.
+fn dash_lengths(dash: &[f64]) -> Option<Vec<f32>> {
+    if dash.iter().any(|d| !(d.is_finite() && *d >= 0.0)) || dash.iter().sum::<f64>() <= 0.0 {
+        return None;
+    }
+    let mut list: Vec<f32> = dash.iter().map(|&d| d as f32).collect();
+    if list.len() % 2 == 1 {
+        list.extend_from_within(..);
+    }
+    Some(list)
+}
+
 impl RenderError {
     fn png(e: ::png::EncodingError) -> Self {
         RenderError::Png(e.to_string())

@@ -145,18 +145,10 @@ fn stroke_style(content: &mut Content, c: Colour, width_pt: f64, dash: &Option<V
     }
     content.set_stroke_rgb(unit(c.r), unit(c.g), unit(c.b));
     content.set_line_width(width);
-    // As SVG reads a dash list: negative or all-zero means solid, an odd
-    // count is repeated.
-    let pattern: Vec<f32> = match dash {
-        Some(d) if d.iter().all(|v| v.is_finite() && *v >= 0.0) && d.iter().sum::<f64>() > 0.0 => {
-            let mut p: Vec<f32> = d.iter().map(|&v| v as f32).collect();
-            if p.len() % 2 == 1 {
-                p.extend_from_within(..);
-            }
-            p
-        }
-        _ => Vec::new(),
-    };
+    let pattern = dash
+        .as_deref()
+        .and_then(super::dash_lengths)
+        .unwrap_or_default();
     content.set_dash_pattern(pattern, 0.0);
     true
 }

@@ -165,17 +165,9 @@ fn stroked(
     Some(Op::Fill(path.stroke(&stroke, res_scale)?, colour))
 }
 
-/// A `stroke-dasharray` as SVG reads it: a negative length or an all-zero
-/// pattern means solid, an odd-length list is repeated to make it even.
+/// The scene's dash list as tiny-skia dashes it (see [`super::dash_lengths`]).
 fn dash_pattern(dash: &[f64]) -> Option<tiny_skia::StrokeDash> {
-    if dash.iter().any(|d| !(d.is_finite() && *d >= 0.0)) || dash.iter().sum::<f64>() <= 0.0 {
-        return None;
-    }
-    let mut list: Vec<f32> = dash.iter().map(|&d| d as f32).collect();
-    if list.len() % 2 == 1 {
-        list.extend_from_within(..);
-    }
-    tiny_skia::StrokeDash::new(list, 0.0)
+    tiny_skia::StrokeDash::new(super::dash_lengths(dash)?, 0.0)
 }
 
 /// The coverage of every glyph of `t` drawn with `transform` (mm to
